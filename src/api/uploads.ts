@@ -1,0 +1,65 @@
+import type { UploadMeta, UploadResponse } from '../../shared/api/uploads.js';
+import { ApiError, request, toApiError } from './http';
+
+export interface UploadProgress {
+  loaded: number;
+  total: number;
+  /** 0..1, or null while the browser does not know the total yet. */
+  fraction: number | null;
+}
+
+export interface UploadOptions {
+  workspaceId?: string;
+  onProgress?: (progress: UploadProgress) => void;
+  signal?: AbortSignal;
+}
+
+function parseJson(text: string): unknown {
+  try {
+    return JSON.parse(text) as unknown;
+  } catch {
+    return undefined;
+  }
+}
+
+/**
+ * Uploads recording files (FIT or CSV) as one multipart request. Uses XMLHttpRequest
+ * rather than fetch because only XHR reports upload progress for big FIT files.
+ */
+export function uploadRecordings(files: readonly File[], options: UploadOptions = {}): Promise<UploadResponse> {
+  const form = new FormData();
+  if (options.workspaceId) form.append('workspaceId', options.workspaceId);
+  for (const file of files) form.append('file', file, file.name);
+
+  return new Promise<UploadResponse>((resolve, reject) => {
+    const xhr = new XMLHttpRequest();
+    xhr.open('POST', '/api/uploads');
+    xhr.setRequestHeader('accept', 'application/json');
+    xhr.upload.onprogress = (event) => {
+      options.onProgress?.({
+        loaded: event.loaded,
+        total: event.total,
+        fraction: event.lengthComputable && event.total > 0 ? event.loaded / event.total : null,
+      });
+    };
+    xhr.onload = () => {
+      const body = parseJson(xhr.responseText);
+      if (xhr.status >= 200 && xhr.status < 300 && body !== undefined) resolve(body as UploadResponse);
+      else reject(toApiError(xhr.status, xhr.statusText, body));
+    };
+    xhr.onerror = () => reject(new ApiError('network', 'The upload was interrupted. Check your connection and try again.', 0));
+    xhr.onabort = () => reject(new DOMException('Upload cancelled', 'AbortError'));
+    if (options.signal) {
+      if (options.signal.aborted) {
+        reject(new DOMException('Upload cancelled', 'AbortError'));
+        return;
+      }
+      options.signal.addEventListener('abort', () => xhr.abort(), { once: true });
+    }
+    xhr.send(form);
+  });
+}
+
+export function getUpload(id: string): Promise<UploadMeta> {
+  return request(`/api/uploads/${encodeURIComponent(id)}`);
+}

@@ -1,0 +1,21 @@
+import '@fontsource/ibm-plex-sans/400.css';
+import '@fontsource/ibm-plex-sans/500.css';
+import '@fontsource/ibm-plex-sans/600.css';
+import '@fontsource/jetbrains-mono/400.css';
+import '@fontsource/jetbrains-mono/500.css';
+import 'ant-design-vue/dist/reset.css';
+import './styles/base.css';
+import { VueQueryPlugin } from '@tanstack/vue-query';
+import { createPinia } from 'pinia';
+import { createApp } from 'vue';
+import App from './App.vue';
+import { createQueryClient } from './queryClient';
+import { createAppRouter } from './router';
+import { useSessionStore } from './stores/session';
+
+const app = createApp(App);
+const pinia = createPinia();
+app.use(pinia);
+app.use(VueQueryPlugin, { queryClient: createQueryClient() });
+app.use(createAppRouter(useSessionStore(pinia)));
+app.mount('#app');

@@ -1,0 +1,69 @@
+import type { RouteRecordRaw } from 'vue-router';
+import { RouteName } from './names';
+
+/** Route targets load lazily so the editor and chart stack stay out of the entry chunk. */
+export const routes: RouteRecordRaw[] = [
+  { path: '/', redirect: { name: RouteName.library } },
+  {
+    path: '/sign-in',
+    name: RouteName.signIn,
+    component: () => import('@/views/SignInView.vue'),
+    meta: { access: 'guest', title: 'Sign in' },
+  },
+  {
+    path: '/sign-up',
+    name: RouteName.signUp,
+    component: () => import('@/views/SignUpView.vue'),
+    meta: { access: 'guest', title: 'Create an account' },
+  },
+  {
+    path: '/forgot-password',
+    name: RouteName.forgotPassword,
+    component: () => import('@/views/ForgotPasswordView.vue'),
+    meta: { access: 'guest', title: 'Forgot password' },
+  },
+  {
+    path: '/reset-password',
+    name: RouteName.resetPassword,
+    component: () => import('@/views/ResetPasswordView.vue'),
+    meta: { access: 'public', title: 'Choose a new password' },
+  },
+  {
+    path: '/library',
+    name: RouteName.library,
+    component: () => import('@/views/LibraryView.vue'),
+    meta: { access: 'member', title: 'Library' },
+  },
+  {
+    path: '/notebooks/:id',
+    name: RouteName.notebook,
+    component: () => import('@/views/NotebookView.vue'),
+    props: true,
+    meta: { access: 'member', title: 'Notebook' },
+  },
+  {
+    path: '/s/:token',
+    name: RouteName.shared,
+    component: () => import('@/views/SharedView.vue'),
+    props: true,
+    meta: { access: 'public', title: 'Shared finding' },
+  },
+  {
+    path: '/team',
+    name: RouteName.team,
+    component: () => import('@/views/TeamView.vue'),
+    meta: { access: 'admin-current', title: 'Team' },
+  },
+  {
+    path: '/outbox',
+    name: RouteName.outbox,
+    component: () => import('@/views/OutboxView.vue'),
+    meta: { access: 'admin-any', title: 'Outbox' },
+  },
+  {
+    path: '/:pathMatch(.*)*',
+    name: RouteName.notFound,
+    component: () => import('@/views/NotFoundView.vue'),
+    meta: { access: 'public', title: 'Not found' },
+  },
+];
