@@ -1,0 +1,110 @@
+import { and, eq, sql } from 'drizzle-orm';
+import type { Db } from '../client.js';
+import { notebook, notebookAccess, notebookRevision, upload, uploadLink, workspaceMember } from '../schema.js';
+
+export interface UploadRecord {
+  id: string;
+  sha256: string;
+  fileName: string;
+  size: number;
+  format: 'fit' | 'csv';
+  workspaceId: string;
+  uploadedBy: string | null;
+  warnings: { code: string; message: string }[];
+  createdAt: Date;
+}
+
+const metaColumns = {
+  id: upload.id,
+  sha256: upload.sha256,
+  fileName: upload.fileName,
+  size: upload.size,
+  format: upload.format,
+  workspaceId: upload.workspaceId,
+  uploadedBy: upload.uploadedBy,
+  warnings: sql<{ code: string; message: string }[]>`${upload.warnings}`,
+  createdAt: upload.createdAt,
+};
+
+export async function findUpload(db: Db, id: string): Promise<UploadRecord | undefined> {
+  const rows = await db.select(metaColumns).from(upload).where(eq(upload.id, id));
+  return rows[0];
+}
+
+export async function findUploadBySha(db: Db, sha256: string): Promise<UploadRecord | undefined> {
+  const rows = await db.select(metaColumns).from(upload).where(eq(upload.sha256, sha256));
+  return rows[0];
+}
+
+export async function readUploadBytes(db: Db, id: string): Promise<Uint8Array | undefined> {
+  const rows = await db.select({ bytes: upload.bytes }).from(upload).where(eq(upload.id, id));
+  return rows[0]?.bytes;
+}
+
+/**
+ * Stores bytes once per sha256 and links them to the workspace. Two concurrent
+ * uploads of the same bytes both end with the one row (the unique sha256 decides).
+ */
+export async function storeUpload(
+  db: Db,
+  input: {
+    sha256: string;
+    fileName: string;
+    format: 'fit' | 'csv';
+    bytes: Uint8Array;
+    warnings: { code: string; message: string }[];
+    uploadedBy: string;
+    workspaceId: string;
+  },
+): Promise<{ record: UploadRecord; duplicate: boolean }> {
+  const inserted = await db
+    .insert(upload)
+    .values({
+      sha256: input.sha256,
+      fileName: input.fileName,
+      size: input.bytes.byteLength,
+      format: input.format,
+      bytes: input.bytes,
+      warnings: input.warnings,
+      uploadedBy: input.uploadedBy,
+      workspaceId: input.workspaceId,
+    })
+    .onConflictDoNothing({ target: upload.sha256 })
+    .returning(metaColumns);
+  const record = inserted[0] ?? (await findUploadBySha(db, input.sha256));
+  if (!record) throw new Error(`upload ${input.sha256} vanished right after it was stored`);
+  await db
+    .insert(uploadLink)
+    .values({ uploadId: record.id, workspaceId: input.workspaceId, uploadedBy: input.uploadedBy })
+    .onConflictDoNothing();
+  return { record, duplicate: inserted.length === 0 };
+}
+
+/**
+ * True when the user may read the upload: a member of a workspace that uploaded it,
+ * or someone who can read a notebook (by membership or grant) whose history binds it.
+ */
+export async function userCanSeeUpload(db: Db, uploadId: string, userId: string): Promise<boolean> {
+  const viaWorkspace = await db
+    .select({ one: sql<number>`1` })
+    .from(uploadLink)
+    .innerJoin(workspaceMember, eq(workspaceMember.workspaceId, uploadLink.workspaceId))
+    .where(and(eq(uploadLink.uploadId, uploadId), eq(workspaceMember.userId, userId)))
+    .limit(1);
+  if (viaWorkspace.length > 0) return true;
+  const pattern = JSON.stringify([{ uploadId }]);
+  const viaNotebook = await db
+    .select({ one: sql<number>`1` })
+    .from(notebookRevision)
+    .innerJoin(notebook, eq(notebook.id, notebookRevision.notebookId))
+    .leftJoin(workspaceMember, and(eq(workspaceMember.workspaceId, notebook.workspaceId), eq(workspaceMember.userId, userId)))
+    .leftJoin(notebookAccess, and(eq(notebookAccess.notebookId, notebook.id), eq(notebookAccess.userId, userId)))
+    .where(
+      and(
+        sql`${notebookRevision.document} -> 'slots' @> ${pattern}::jsonb`,
+        sql`(${workspaceMember.role} is not null or ${notebookAccess.role} is not null)`,
+      ),
+    )
+    .limit(1);
+  return viaNotebook.length > 0;
+}

@@ -1,0 +1,41 @@
+import type { RequestHandler } from 'express';
+import helmet from 'helmet';
+
+/**
+ * The page's policy. No 'unsafe-eval' for scripts; 'unsafe-inline' styles because
+ * ant-design-vue injects style tags at run time.
+ */
+export function securityHeaders(): RequestHandler {
+  return helmet({
+    contentSecurityPolicy: {
+      useDefaults: false,
+      directives: {
+        defaultSrc: ["'self'"],
+        scriptSrc: ["'self'"],
+        styleSrc: ["'self'", "'unsafe-inline'"],
+        imgSrc: ["'self'", 'data:', 'blob:'],
+        fontSrc: ["'self'", 'data:'],
+        workerSrc: ["'self'", 'blob:'],
+        connectSrc: ["'self'"],
+        objectSrc: ["'none'"],
+        frameAncestors: ["'none'"],
+        baseUri: ["'self'"],
+        formAction: ["'self'"],
+      },
+    },
+    crossOriginEmbedderPolicy: false,
+  });
+}
+
+/**
+ * The engine worker's own script policy. arquero compiles table expressions with
+ * Function(), which needs 'unsafe-eval' inside that worker only; the page keeps the
+ * strict policy above.
+ */
+export const ENGINE_WORKER_CSP =
+  "default-src 'self'; script-src 'self' 'unsafe-eval'; worker-src 'self' blob:; connect-src 'self'; img-src 'self' data: blob:; object-src 'none'";
+
+/** Built engine worker files: /assets/engine.worker-<hash>.js (and its map). */
+export function isEngineWorkerAsset(fileName: string): boolean {
+  return /^engine\.worker/.test(fileName);
+}

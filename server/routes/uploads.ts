@@ -1,0 +1,42 @@
+import { Router } from 'express';
+import multer from 'multer';
+import { idParamsSchema } from '../../shared/api/common.js';
+import { uploadFieldsSchema } from '../../shared/api/uploads.js';
+import type { AppContext } from '../context.js';
+import { userIdOf } from '../middleware/session.js';
+import * as uploads from '../services/uploads.js';
+
+const MAX_FILES_PER_REQUEST = 20;
+
+export function uploadRoutes(ctx: AppContext): Router {
+  const router = Router();
+  const db = ctx.database.db;
+  // Memory storage: the bytes go to the database anyway, and the size limit bounds memory.
+  const receive = multer({
+    storage: multer.memoryStorage(),
+    limits: { fileSize: ctx.config.uploadLimitMb * 1024 * 1024, files: MAX_FILES_PER_REQUEST, fields: 10 },
+  }).array('file', MAX_FILES_PER_REQUEST);
+
+  router.post('/', receive, async (req, res) => {
+    const { workspaceId } = uploadFieldsSchema.parse(req.body ?? {});
+    const files = ((req.files as Express.Multer.File[] | undefined) ?? []).map((f) => ({
+      // multer decodes the part's filename as latin1; browsers send UTF-8.
+      fileName: Buffer.from(f.originalname, 'latin1').toString('utf8'),
+      bytes: new Uint8Array(f.buffer.buffer, f.buffer.byteOffset, f.buffer.byteLength),
+    }));
+    res.status(201).json(await uploads.storeUploads(db, userIdOf(res), workspaceId, files));
+  });
+  router.get('/:id', async (req, res) => {
+    const { id } = idParamsSchema.parse(req.params);
+    res.json(await uploads.getUploadMeta(db, userIdOf(res), id));
+  });
+  router.get('/:id/content', async (req, res) => {
+    const { id } = idParamsSchema.parse(req.params);
+    const { meta, bytes } = await uploads.getUploadContent(db, userIdOf(res), id);
+    res.setHeader('Content-Type', 'application/octet-stream');
+    res.setHeader('Content-Disposition', `attachment; filename*=UTF-8''${encodeURIComponent(meta.fileName)}`);
+    res.setHeader('Cache-Control', 'private, max-age=31536000, immutable');
+    res.send(Buffer.from(bytes.buffer, bytes.byteOffset, bytes.byteLength));
+  });
+  return router;
+}

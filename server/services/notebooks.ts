@@ -1,0 +1,144 @@
+import type {
+  CreateNotebookBody,
+  NotebookAccessResponse,
+  NotebookMeta,
+  NotebookResponse,
+  PutNotebookAccessBody,
+  RevisionResponse,
+  RevisionSummary,
+  SaveNotebookBody,
+} from '../../shared/api/notebooks.js';
+import { notebookDocumentSchema, type NotebookDocument } from '../../shared/notebook/document.js';
+import type { Db } from '../db/client.js';
+import * as repo from '../db/repositories/notebooks.js';
+import { findUsersByEmails } from '../db/repositories/users.js';
+import { findRole } from '../db/repositories/workspaces.js';
+import { AppError, notFound } from '../errors.js';
+import { assertNotebook, assertWorkspace, effectiveNotebookRole, notebookAllows, type NotebookAction } from './policy.js';
+
+export async function listNotebooks(db: Db, userId: string, workspaceId?: string): Promise<NotebookMeta[]> {
+  return (await repo.listNotebooksForUser(db, userId, workspaceId)).map(toMeta);
+}
+
+export async function createNotebook(db: Db, userId: string, body: CreateNotebookBody): Promise<NotebookResponse> {
+  assertWorkspace(await findRole(db, body.workspaceId, userId), 'create');
+  const id = await repo.insertNotebook(db, {
+    workspaceId: body.workspaceId,
+    ownerId: userId,
+    title: body.document.title,
+    document: body.document,
+    summary: 'Created',
+  });
+  return getNotebook(db, userId, id);
+}
+
+export async function getNotebook(db: Db, userId: string, notebookId: string): Promise<NotebookResponse> {
+  const nb = await reach(db, userId, notebookId, 'read');
+  const rev = await repo.findRevisionDocument(db, notebookId, nb.currentRevision);
+  if (!rev) throw new Error(`notebook ${notebookId} has no row for its current revision ${nb.currentRevision}`);
+  return { notebook: toMeta(nb), revision: nb.currentRevision, document: readDocument(rev.document) };
+}
+
+/** Saves a new revision; a stale base answers 409 and writes nothing. */
+export async function saveNotebook(db: Db, userId: string, notebookId: string, body: SaveNotebookBody): Promise<NotebookResponse> {
+  await reach(db, userId, notebookId, 'edit');
+  await append(db, userId, notebookId, body.baseRevision, body.document, body.summary ?? '');
+  return getNotebook(db, userId, notebookId);
+}
+
+export async function deleteNotebook(db: Db, userId: string, notebookId: string): Promise<void> {
+  await reach(db, userId, notebookId, 'manage');
+  await repo.deleteNotebook(db, notebookId);
+}
+
+export async function listRevisions(db: Db, userId: string, notebookId: string): Promise<RevisionSummary[]> {
+  await reach(db, userId, notebookId, 'read');
+  return (await repo.listRevisions(db, notebookId)).map(toRevisionSummary);
+}
+
+export async function getRevision(db: Db, userId: string, notebookId: string, revision: number): Promise<RevisionResponse> {
+  await reach(db, userId, notebookId, 'read');
+  const rev = await repo.findRevisionDocument(db, notebookId, revision);
+  if (!rev) throw notFound(`Revision ${revision}`);
+  return { ...toRevisionSummary(rev), document: readDocument(rev.document) };
+}
+
+/** Copies an old revision into a new one on top of the current revision. */
+export async function restoreRevision(db: Db, userId: string, notebookId: string, revision: number, summary?: string): Promise<NotebookResponse> {
+  const nb = await reach(db, userId, notebookId, 'edit');
+  const rev = await repo.findRevisionDocument(db, notebookId, revision);
+  if (!rev) throw notFound(`Revision ${revision}`);
+  await append(db, userId, notebookId, nb.currentRevision, readDocument(rev.document), summary ?? `Restored revision ${revision}`);
+  return getNotebook(db, userId, notebookId);
+}
+
+export async function getAccess(db: Db, userId: string, notebookId: string): Promise<NotebookAccessResponse> {
+  await reach(db, userId, notebookId, 'read');
+  return { grants: (await repo.listGrants(db, notebookId)).map(toGrant) };
+}
+
+/** Replaces the non-owner grants; every e-mail must belong to an account. */
+export async function putAccess(db: Db, userId: string, notebookId: string, body: PutNotebookAccessBody): Promise<NotebookAccessResponse> {
+  await reach(db, userId, notebookId, 'manage');
+  const byEmail = new Map<string, 'editor' | 'viewer'>();
+  for (const g of body.grants) byEmail.set(g.email.toLowerCase(), g.role);
+  const users = await findUsersByEmails(db, [...byEmail.keys()]);
+  const missing = [...byEmail.keys()].filter((e) => !users.some((u) => u.email === e));
+  if (missing.length > 0) {
+    throw new AppError(404, 'user_not_found', `No account uses ${missing.join(', ')}. Ask them to sign up first.`, { emails: missing });
+  }
+  await repo.replaceGrants(db, notebookId, users.map((u) => ({ userId: u.id, role: byEmail.get(u.email)! })));
+  return { grants: (await repo.listGrants(db, notebookId)).map(toGrant) };
+}
+
+async function reach(db: Db, userId: string, notebookId: string, action: NotebookAction): Promise<repo.NotebookAccessRecord> {
+  const nb = await repo.findNotebookForUser(db, notebookId, userId);
+  assertNotebook(nb ?? undefined, action);
+  return nb!;
+}
+
+async function append(db: Db, userId: string, notebookId: string, base: number, document: NotebookDocument, summary: string): Promise<void> {
+  const result = await repo.appendRevision(db, { notebookId, baseRevision: base, title: document.title, document, authorId: userId, summary });
+  if (!result.saved) {
+    throw new AppError(
+      409,
+      'stale_revision',
+      `This notebook was saved by someone else meanwhile (now at revision ${result.currentRevision}, you edited revision ${base}). Reload it and apply your changes again.`,
+      { currentRevision: result.currentRevision, baseRevision: base },
+    );
+  }
+}
+
+/** Stored documents were validated on write; parsing again fills defaults of newer optional fields. */
+function readDocument(stored: unknown): NotebookDocument {
+  return notebookDocumentSchema.parse(stored);
+}
+
+function toMeta(nb: repo.NotebookAccessRecord): NotebookMeta {
+  const reachInfo = { workspaceRole: nb.workspaceRole, grant: nb.grant };
+  return {
+    id: nb.id,
+    title: nb.title,
+    workspace: { id: nb.workspaceId, name: nb.workspaceName },
+    owner: { id: nb.ownerId, name: nb.ownerName },
+    role: effectiveNotebookRole(reachInfo),
+    permissions: { edit: notebookAllows(reachInfo, 'edit'), manage: notebookAllows(reachInfo, 'manage') },
+    revision: nb.currentRevision,
+    forkedFrom: nb.forkedFromNotebookId ? { notebookId: nb.forkedFromNotebookId, revision: nb.forkedFromRevision ?? 1 } : null,
+    createdAt: nb.createdAt.toISOString(),
+    updatedAt: nb.updatedAt.toISOString(),
+  };
+}
+
+function toRevisionSummary(r: repo.RevisionRecord): RevisionSummary {
+  return {
+    revision: r.revision,
+    author: r.authorId ? { id: r.authorId, name: r.authorName ?? '' } : null,
+    summary: r.summary,
+    createdAt: r.createdAt.toISOString(),
+  };
+}
+
+function toGrant(g: repo.GrantRecord) {
+  return { user: { id: g.userId, name: g.name, email: g.email }, role: g.role };
+}
