@@ -1,0 +1,49 @@
+import { reduceForDisplay } from './reduce-series.js';
+import { DEFAULT_MAX_POINTS, VEGA_LITE_SCHEMA, finiteOrNull, type ChartDevice } from './chart-common.js';
+import { deviceColour } from './palette.js';
+import type { ChartRow, TopLevelSpec } from './spec.js';
+
+/** Input of {@link differenceSpec}. */
+export interface DifferenceInput {
+  timeS: ArrayLike<number>;
+  test: ArrayLike<number>;
+  reference: ArrayLike<number>;
+  /** The device under test (its colour draws the line). */
+  device: ChartDevice;
+  /** Show the difference in percent of the reference instead of W. */
+  percent?: boolean;
+  title?: string;
+  maxPoints?: number;
+}
+
+/**
+ * Difference of the device under test against the reference over time (W, or % of the
+ * reference), with a rule at zero. Reduced for display with extremes kept.
+ */
+export function differenceSpec(input: DifferenceInput): TopLevelSpec {
+  const n = Math.min(input.test.length, input.reference.length, input.timeS.length);
+  const diff = new Float64Array(n);
+  for (let i = 0; i < n; i++) {
+    const d = input.test[i]! - input.reference[i]!;
+    diff[i] = input.percent ? (100 * d) / input.reference[i]! : d;
+  }
+  const r = reduceForDisplay(input.timeS, diff, input.maxPoints ?? DEFAULT_MAX_POINTS);
+  const rows: ChartRow[] = Array.from(r.x, (t, i) => ({ t, diff: finiteOrNull(r.y[i]!) }));
+  const unit = input.percent ? '%' : 'W';
+  return {
+    $schema: VEGA_LITE_SCHEMA,
+    ...(input.title ? { title: input.title } : {}),
+    width: 'container',
+    data: { values: rows },
+    layer: [
+      { mark: { type: 'rule', color: '#666666' }, encoding: { y: { datum: 0 } } },
+      {
+        mark: { type: 'line', strokeWidth: 1, color: deviceColour(input.device.colourIndex) },
+        encoding: {
+          x: { field: 't', type: 'quantitative', title: 'Time (s)' },
+          y: { field: 'diff', type: 'quantitative', title: `${input.device.label} - reference (${unit})` },
+        },
+      },
+    ],
+  };
+}

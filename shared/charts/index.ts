@@ -1,0 +1,11 @@
+export { barsToleranceSpec, type BarsToleranceInput, type ToleranceBar } from './bars-tolerance.js';
+export { blandAltmanSpec, type BlandAltmanInput } from './bland-altman.js';
+export { DEFAULT_MAX_POINTS, LEG_COLOURS, TOLERANCE_BAND_COLOUR, VEGA_LITE_SCHEMA, type ChartDevice } from './chart-common.js';
+export { differenceSpec, type DifferenceInput } from './difference.js';
+export { leftRightSpec, type LeftRightInput } from './left-right.js';
+export { DEVICE_PALETTE, deviceColour } from './palette.js';
+export { reduceForDisplay, type ReducedSeries } from './reduce-series.js';
+export { scatterIdentitySpec, type ScatterIdentityInput } from './scatter-identity.js';
+export type { ChartRow, TopLevelSpec } from './spec.js';
+export { tracesSpec, type TracesInput } from './traces.js';
+export { validateUserSpec } from './validate-user-spec.js';
