@@ -1,0 +1,163 @@
+import { EngineError, type EngineWarning } from '../errors.js';
+import { fitDeviceIdentity, type FitRawMessage } from './fit-device.js';
+import { fitEvents, gearColumns, pausedSeconds, timestampMs, type FitParsedMessage } from './fit-events.js';
+import type { BalanceSide, ColumnName, Recording, RecordingColumns } from './recording.js';
+import { sampleInterval } from './sample-interval.js';
+import { splitPower } from './split-power.js';
+
+/** The parts of fit-file-parser's output (mode 'list') a recording is built from. */
+export interface ParsedFitLike {
+  records?: FitParsedMessage[];
+  events?: FitParsedMessage[];
+  laps?: FitParsedMessage[];
+  file_ids?: FitParsedMessage[];
+  device_infos?: FitParsedMessage[];
+  file_creator?: FitParsedMessage;
+  raw_messages?: FitRawMessage[];
+}
+
+// Record fields copied as they are (fit-file-parser already applies scale: speed in m/s, percents).
+const PLAIN_FIELDS: readonly (readonly [string, ColumnName])[] = [
+  ['power', 'power'],
+  ['cadence', 'cadence'],
+  ['speed', 'speed'],
+  ['heart_rate', 'heartRate'],
+  ['left_torque_effectiveness', 'leftTorqueEffectiveness'],
+  ['right_torque_effectiveness', 'rightTorqueEffectiveness'],
+  ['left_pedal_smoothness', 'leftPedalSmoothness'],
+  ['right_pedal_smoothness', 'rightPedalSmoothness'],
+];
+
+/**
+ * Builds a {@link Recording} from parsed FIT messages. Samples keep their real timestamps (a gap
+ * in time stays a gap); a record whose timestamp repeats the previous one is merged into it (its
+ * fields fill the gaps of the first), one that goes backwards is dropped; both with a warning
+ * naming the first record. Missing fields are NaN, never 0.
+ */
+export function fitToRecording(parsed: ParsedFitLike, fileName: string, warnings: EngineWarning[], recordBytes: (k: number) => number | undefined): Recording {
+  const records = parsed.records ?? [];
+  const n = records.length;
+  const time = new Float64Array(n);
+  const cols = PLAIN_FIELDS.map(() => new Float64Array(n).fill(NaN));
+  const seen = PLAIN_FIELDS.map(() => false);
+  const balance = new Float64Array(n).fill(NaN);
+  let rightCount = 0;
+  let unknownCount = 0;
+  const issues = { repeated: [] as number[], backwards: [] as number[], untimed: [] as number[] };
+  let t0 = NaN;
+  let last = -Infinity;
+  let m = 0;
+  for (let r = 0; r < n; r++) {
+    const rec = records[r]!;
+    const ms = timestampMs(rec.timestamp);
+    if (Number.isNaN(ms)) {
+      issues.untimed.push(r);
+      continue;
+    }
+    let k = m;
+    if (ms === last) {
+      k = m - 1;
+      issues.repeated.push(r);
+    } else if (ms < last) {
+      issues.backwards.push(r);
+      continue;
+    } else {
+      if (Number.isNaN(t0)) t0 = ms;
+      time[m++] = (ms - t0) / 1000;
+      last = ms;
+    }
+    for (let f = 0; f < PLAIN_FIELDS.length; f++) {
+      const v = rec[PLAIN_FIELDS[f]![0]];
+      if (typeof v === 'number' && Number.isNaN(cols[f]![k]!)) {
+        cols[f]![k] = v;
+        seen[f] = true;
+      }
+    }
+    if (Number.isNaN(cols[2]![k]!) && typeof rec.enhanced_speed === 'number') ((cols[2]![k] = rec.enhanced_speed), (seen[2] = true));
+    const lrb = rec.left_right_balance as { value?: unknown; right?: unknown } | number | undefined;
+    if (lrb !== undefined && Number.isNaN(balance[k]!)) {
+      const value = typeof lrb === 'number' ? lrb & 0x7f : Number(lrb.value);
+      const right = typeof lrb === 'number' ? (lrb & 0x80) !== 0 : lrb.right === true;
+      // 0xFF (127 with the side bit) is the invalid value; a share above 100 % is not a share.
+      if (value >= 0 && value <= 100) {
+        balance[k] = right ? value : -1 - value; // negative marks "side unknown" until the side is settled
+        if (right) rightCount++;
+        else unknownCount++;
+      }
+    }
+  }
+  reportTimeIssues(issues, fileName, warnings, recordBytes);
+  const columns: RecordingColumns = {};
+  PLAIN_FIELDS.forEach(([, name], f) => {
+    if (seen[f]) columns[name] = m < n ? cols[f]!.slice(0, m) : cols[f]!;
+  });
+  const side = settleBalance(balance, m, rightCount, unknownCount, fileName, warnings);
+  if (side !== 'none') {
+    columns.balance = m < n ? balance.slice(0, m) : balance;
+    const left = new Float64Array(m);
+    const right = new Float64Array(m);
+    if (columns.power && splitPower(columns.power, columns.balance, side, left, right)) Object.assign(columns, { leftPower: left, rightPower: right });
+  }
+  const axis = m < n ? time.slice(0, m) : time;
+  const events = fitEvents(parsed.events ?? [], parsed.laps ?? [], t0);
+  gearColumns(axis, events, columns);
+  let dropouts = 0;
+  const power = columns.power;
+  if (power) for (let i = 0; i < m; i++) if (Number.isNaN(power[i]!)) dropouts++;
+  return {
+    meta: {
+      fileName,
+      format: 'fit',
+      device: fitDeviceIdentity(parsed.file_ids ?? [], parsed.device_infos ?? [], parsed.raw_messages ?? [], parsed.file_creator),
+      startMs: t0,
+      sampleIntervalS: sampleInterval(axis),
+      totalS: m > 0 ? axis[m - 1]! : 0,
+      pausedS: pausedSeconds(events),
+      balanceSide: side,
+      dropouts,
+    },
+    time: axis,
+    columns,
+    events,
+    warnings,
+  };
+}
+
+function settleBalance(balance: Float64Array, m: number, rightCount: number, unknownCount: number, fileName: string, warnings: EngineWarning[]): BalanceSide {
+  if (rightCount + unknownCount === 0) return 'none';
+  const side: BalanceSide = rightCount > 0 ? 'right' : 'unknown';
+  for (let k = 0; k < m; k++) {
+    const b = balance[k]!;
+    if (b < 0) balance[k] = side === 'right' ? NaN : -1 - b;
+  }
+  if (rightCount > 0 && unknownCount > 0) {
+    warnings.push({
+      code: 'balance_side_mixed',
+      message: `${fileName}: ${unknownCount} records give left_right_balance without the "right" bit while ${rightCount} set it; those ${unknownCount} balance values were left out (side unknown).`,
+      where: { file: fileName, field: 'left_right_balance' },
+    });
+  }
+  return side;
+}
+
+function reportTimeIssues(issues: { repeated: number[]; backwards: number[]; untimed: number[] }, fileName: string, warnings: EngineWarning[], recordBytes: (k: number) => number | undefined): void {
+  const say = (code: string, list: number[], what: string): void => {
+    if (list.length === 0) return;
+    const first = list[0]!;
+    const byte = recordBytes(first);
+    const at = byte === undefined ? `record ${first}` : `record ${first} (byte ${byte})`;
+    warnings.push({
+      code,
+      message: `${fileName}: ${list.length} record${list.length > 1 ? 's' : ''} ${what}, first at ${at}.`,
+      where: { file: fileName, record: first, field: 'timestamp', ...(byte !== undefined && { byte }) },
+    });
+  };
+  say('fit_repeated_timestamp', issues.repeated, 'repeat the previous timestamp and were merged into it (missing fields filled, existing values kept)');
+  say('fit_backward_timestamp', issues.backwards, 'have a timestamp earlier than the one before and were dropped');
+  say('fit_missing_timestamp', issues.untimed, 'have no timestamp and were dropped');
+}
+
+/** Throws when no sample survived or the file has no usable time (kept separate so callers can explain). */
+export function assertHasSamples(recording: Recording, fileName: string): void {
+  if (recording.time.length === 0) throw new EngineError('too_short', `${fileName} holds no records with a timestamp, so there is nothing to compare.`, { file: fileName });
+}

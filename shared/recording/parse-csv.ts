@@ -1,0 +1,171 @@
+import Papa from 'papaparse';
+import { EngineError, type EngineWarning } from '../errors.js';
+import { checkUsable } from './check-usable.js';
+import { csvMappingSchema, FIELD_UNITS, unitFactor, type CsvMapping } from './csv-mapping.js';
+import { isoLacksZone, parseTimeCell } from './csv-time.js';
+import { importFailure } from './import-failure.js';
+import type { ImportOptions, ImportResult } from './import-result.js';
+import { describeRows } from './inspect-csv.js';
+import type { BalanceSide, Recording, RecordingColumns } from './recording.js';
+import { sampleInterval } from './sample-interval.js';
+import { splitPower } from './split-power.js';
+
+/**
+ * Reads CSV text into a {@link Recording} with papaparse. Without `mapping`, the delimiter, header
+ * row, time column (seconds, h:mm:ss or ISO 8601) and column units are guessed from the text
+ * (see `inspectCsv`). Speeds become m/s, kW becomes W, balance keeps the side its header states.
+ * Never throws: problems come back as `{ ok: false, error }` naming the file, row and column.
+ *
+ * @example parseCsv('time,power\n0,200\n...', 'ride.csv')
+ */
+export function parseCsv(text: string, fileName: string, mapping?: CsvMapping, options: ImportOptions = {}): ImportResult {
+  try {
+    const recording = readCsv(text, fileName, mapping ?? options.csvMapping, options);
+    return { ok: true, recording, warnings: recording.warnings };
+  } catch (error) {
+    return importFailure(error, fileName);
+  }
+}
+
+function readCsv(text: string, fileName: string, given: CsvMapping | undefined, options: ImportOptions): Recording {
+  const file = fileName;
+  if (text.trim() === '') throw new EngineError('empty_file', `${file} is empty: there is no text to read.`, { file });
+  const checked = given === undefined ? undefined : csvMappingSchema.safeParse(given);
+  if (checked && !checked.success) {
+    const issue = checked.error.issues[0];
+    throw new EngineError('csv_mapping_invalid', `${file}: the column mapping is not valid (${issue?.path.join('.') || 'mapping'}: ${issue?.message}).`, { file, field: issue?.path.join('.') });
+  }
+  const parsed = Papa.parse<string[]>(text, { delimiter: checked?.data.delimiter ?? '', skipEmptyLines: false });
+  const rows = parsed.data;
+  const delimiter = parsed.meta.delimiter;
+  const inspection = describeRows(rows.filter((r) => !isBlank(r)).slice(0, 60), delimiter === ';' || delimiter === '\t' || delimiter === '|' ? delimiter : ',', file, checked?.data.hasHeader);
+  const firstData = firstDataRow(rows, inspection.hasHeader);
+  if (firstData >= rows.length) {
+    throw new EngineError('header_only', `${file} has a header row but no data rows (nothing after row ${firstData}).`, { file, row: firstData + 1 });
+  }
+  if (!inspection.columns.some((c) => c.numeric)) {
+    throw new EngineError('no_numeric_columns', `${file}: none of its ${inspection.columns.length} columns holds numbers (checked rows ${firstData + 1}-${Math.min(rows.length, firstData + 50)}), so it is not a recording.`, { file, row: firstData + 1 });
+  }
+  if (!given && !inspection.hasHeader) {
+    throw new EngineError('csv_needs_mapping', `${file} has no header row, so its columns cannot be recognised; map them by hand.`, { file, row: 1 });
+  }
+  const mapping = checked?.data ?? inspection.guessedMapping;
+  if (!mapping) {
+    const names = inspection.columns.map((c) => `"${c.name}"`).join(', ');
+    throw new EngineError('no_time_column', `${file}: no column holds the time (looked for a header such as "time", "seconds" or "timestamp" among ${names}). Map the time column by hand.`, { file, row: 1 });
+  }
+  const warnings: EngineWarning[] = [...inspection.warnings];
+  const names = inspection.columns.map((c) => c.name);
+  const indexOf = (column: string, field: string): number => {
+    const i = names.indexOf(column);
+    if (i < 0) throw new EngineError('csv_mapping_column', `${file}: the mapping names column "${column}" for ${field}, but the file has no such column (it has ${names.map((n) => `"${n}"`).join(', ')}).`, { file, row: 1, field: column });
+    return i;
+  };
+  const timeAt = indexOf(mapping.time.column, 'time');
+  for (const c of mapping.columns) {
+    if (!FIELD_UNITS[c.field].includes(c.unit)) throw new EngineError('mixed_units', `${file}: column "${c.column}" is mapped to ${c.field} in ${c.unit}, which is not a unit of ${c.field} (${FIELD_UNITS[c.field].join(', ')}).`, { file, field: c.column });
+  }
+  const mapped = mapping.columns.map((c) => ({ ...c, at: indexOf(c.column, c.field), factor: unitFactor(c.unit), out: new Float64Array(rows.length).fill(NaN) }));
+  const decimalComma = delimiter === ';';
+  const time = new Float64Array(rows.length);
+  const issues = { badTime: [] as number[], repeated: [] as number[], backwards: [] as number[], badCells: 0, firstBad: undefined as undefined | { row: number; column: string } };
+  let first = NaN;
+  let last = -Infinity;
+  let m = 0;
+  for (let r = firstData; r < rows.length; r++) {
+    const row = rows[r]!;
+    if (isBlank(row)) continue;
+    const raw = parseTimeCell(row[timeAt] ?? '', mapping.time.format);
+    if (Number.isNaN(raw)) {
+      issues.badTime.push(r + 1);
+      continue;
+    }
+    let k = m;
+    if (raw === last) ((k = m - 1), issues.repeated.push(r + 1));
+    else if (raw < last) {
+      issues.backwards.push(r + 1);
+      continue;
+    } else {
+      if (Number.isNaN(first)) first = raw;
+      time[m++] = mapping.time.format === 'iso' ? (raw - first) / 1000 : raw - first;
+      last = raw;
+    }
+    for (const c of mapped) {
+      if (!Number.isNaN(c.out[k]!)) continue;
+      const cell = row[c.at] ?? '';
+      if (cell === '') continue;
+      const v = Number(decimalComma ? cell.replace(',', '.') : cell);
+      if (Number.isNaN(v) || cell.trim() === '') {
+        if (cell.trim() !== '' && issues.badCells++ === 0) issues.firstBad = { row: r + 1, column: c.column };
+        continue;
+      }
+      c.out[k] = v * c.factor;
+    }
+  }
+  reportRowIssues(issues, file, warnings);
+  if (mapping.time.format === 'iso' && isoLacksZone(rows[firstData]?.[timeAt] ?? '')) {
+    warnings.push({ code: 'csv_time_zone_assumed', message: `${file}: the times in column "${mapping.time.column}" carry no time zone; read as UTC.`, where: { file, field: mapping.time.column } });
+  }
+  const columns: RecordingColumns = {};
+  let side: BalanceSide = 'none';
+  for (const c of mapped) {
+    columns[c.field] = m < rows.length ? c.out.slice(0, m) : c.out;
+    if (c.field === 'balance') side = c.unit === '% left' ? 'left' : c.unit === '% right' ? 'right' : 'unknown';
+  }
+  completeLegs(columns, side, m);
+  const axis = time.slice(0, m);
+  let dropouts = 0;
+  if (columns.power) for (let i = 0; i < m; i++) if (Number.isNaN(columns.power[i]!)) dropouts++;
+  const startMs = mapping.time.format === 'iso' ? first : (mapping.startMs ?? NaN);
+  const recording: Recording = {
+    meta: {
+      fileName: file, format: 'csv', device: options.label ? { label: options.label } : {}, startMs,
+      sampleIntervalS: sampleInterval(axis), totalS: m > 0 ? axis[m - 1]! : 0, pausedS: 0, balanceSide: side, dropouts,
+    },
+    time: axis, columns, events: [], warnings,
+  };
+  checkUsable(recording, options);
+  return recording;
+}
+
+/** Fills total or leg power from the others: total = left + right; legs from total and a sided balance. */
+function completeLegs(columns: RecordingColumns, side: BalanceSide, m: number): void {
+  const { power, leftPower, rightPower, balance } = columns;
+  if (!power && leftPower && rightPower) {
+    const total = new Float64Array(m);
+    for (let i = 0; i < m; i++) total[i] = leftPower[i]! + rightPower[i]!;
+    columns.power = total;
+  } else if (power && balance && !leftPower && !rightPower) {
+    const left = new Float64Array(m);
+    const right = new Float64Array(m);
+    if (splitPower(power, balance, side, left, right)) Object.assign(columns, { leftPower: left, rightPower: right });
+  }
+}
+
+function isBlank(row: string[]): boolean {
+  return row.length === 0 || (row.length === 1 && row[0]!.trim() === '');
+}
+
+function firstDataRow(rows: string[][], hasHeader: boolean): number {
+  let r = 0;
+  while (r < rows.length && isBlank(rows[r]!)) r++;
+  if (hasHeader) r++;
+  while (r < rows.length && isBlank(rows[r]!)) r++;
+  return r;
+}
+
+function reportRowIssues(issues: { badTime: number[]; repeated: number[]; backwards: number[]; badCells: number; firstBad: { row: number; column: string } | undefined }, file: string, warnings: EngineWarning[]): void {
+  const say = (code: string, list: number[], what: string): void => {
+    if (list.length > 0) warnings.push({ code, message: `${file}: ${list.length} row${list.length > 1 ? 's' : ''} ${what}, first at row ${list[0]}.`, where: { file, row: list[0]!, field: 'time' } });
+  };
+  say('csv_bad_time', issues.badTime, 'have no readable time and were left out');
+  say('csv_repeated_time', issues.repeated, 'repeat the previous time and were merged into it (missing cells filled, existing values kept)');
+  say('csv_backward_time', issues.backwards, 'have a time earlier than the row before and were dropped');
+  if (issues.firstBad) {
+    warnings.push({
+      code: 'csv_bad_cell',
+      message: `${file}: ${issues.badCells} cell${issues.badCells > 1 ? 's are' : ' is'} not a number and read as missing, first at row ${issues.firstBad.row}, column "${issues.firstBad.column}".`,
+      where: { file, row: issues.firstBad.row, field: issues.firstBad.column },
+    });
+  }
+}
