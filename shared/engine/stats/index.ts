@@ -4,6 +4,7 @@ export { centredSums, type CentredSums } from './centred-sums.js';
 export { blandAltman, type BlandAltmanOptions, type BlandAltmanResult } from './bland-altman.js';
 export { studentTCdf, studentTDensity, studentTQuantile } from './student-t.js';
 export { normalQuantile } from './normal-quantile.js';
+export { normalCdf, normalDensity, normalSplit, type NormalSplit } from './normal-cdf.js';
 export { logGamma, logGammaRatio, logBeta } from './log-gamma.js';
 export { incompleteBeta, type IncompleteBeta } from './incomplete-beta.js';
 export { olsFit, type OlsFit } from './ols-fit.js';

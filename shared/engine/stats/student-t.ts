@@ -1,6 +1,6 @@
 import { incompleteBeta } from './incomplete-beta.js';
 import { logGammaRatio } from './log-gamma.js';
-import { normalDensity, normalSplit } from './normal-cdf.js';
+import { normalSplit } from './normal-cdf.js';
 import { normalQuantile } from './normal-quantile.js';
 
 /**
