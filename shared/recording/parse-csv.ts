@@ -41,7 +41,8 @@ function readCsv(text: string, fileName: string, given: CsvMapping | undefined, 
   const inspection = describeRows(rows.filter((r) => !isBlank(r)).slice(0, 60), delimiter === ';' || delimiter === '\t' || delimiter === '|' ? delimiter : ',', file, checked?.data.hasHeader);
   const firstData = firstDataRow(rows, inspection.hasHeader);
   if (firstData >= rows.length) {
-    throw new EngineError('header_only', `${file} has a header row but no data rows (nothing after row ${firstData}).`, { file, row: firstData + 1 });
+    const headerRow = rows.findIndex((r) => !isBlank(r)) + 1;
+    throw new EngineError('header_only', `${file} has a header row (row ${headerRow}) but no data rows after it (row ${headerRow + 1} is missing).`, { file, row: headerRow + 1 });
   }
   if (!inspection.columns.some((c) => c.numeric)) {
     throw new EngineError('no_numeric_columns', `${file}: none of its ${inspection.columns.length} columns holds numbers (checked rows ${firstData + 1}-${Math.min(rows.length, firstData + 50)}), so it is not a recording.`, { file, row: firstData + 1 });
