@@ -44,12 +44,12 @@ export function demingJackknife(
   const { n, meanX, meanY, sxx, syy, sxy } = sums;
   const slope = demingSlope(sums, errorRatio);
   const intercept = meanY - slope * meanX;
-  const empty = { n, slope, intercept, errorRatio, slopeSe: NaN, interceptSe: NaN, slopeCi: [NaN, NaN], interceptCi: [NaN, NaN] };
-  if (n < 3 || !Number.isFinite(slope)) return empty as DemingJackknife;
+  if (n < 3 || !Number.isFinite(slope)) {
+    return { n, slope, intercept, errorRatio, slopeSe: NaN, interceptSe: NaN, slopeCi: [NaN, NaN], interceptCi: [NaN, NaN] };
+  }
 
   const f = n / (n - 1);
-  // Pseudo-values summed on the fly: mean and corrected sum of squares need two passes,
-  // so keep them (n doubles each) rather than recomputing the fits.
+  // Pseudo-values are kept (n doubles each) because their SD takes two passes.
   const pvSlope = new Float64Array(n);
   const pvIntercept = new Float64Array(n);
   let k = 0;

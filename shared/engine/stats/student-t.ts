@@ -1,6 +1,6 @@
 import { incompleteBeta } from './incomplete-beta.js';
 import { logGammaRatio } from './log-gamma.js';
-import { normalSplit } from './normal-cdf.js';
+import { normalDensity, normalSplit } from './normal-cdf.js';
 import { normalQuantile } from './normal-quantile.js';
 
 /**
@@ -62,6 +62,7 @@ function normalFromT(t: number, df: number): number {
  */
 export function studentTDensity(t: number, df: number): number {
   if (!(df > 0) || Number.isNaN(t)) return NaN;
+  if (df === Infinity) return normalDensity(t);
   // ln[Gamma((df+1)/2) / Gamma(df/2)] = -logGammaRatio(df/2, 1/2), stable for large df.
   const logNorm = -logGammaRatio(df / 2, 0.5) - 0.5 * Math.log(df * Math.PI);
   return Math.exp(logNorm - ((df + 1) / 2) * Math.log1p((t * t) / df));

@@ -139,3 +139,10 @@ describe('studentTCdf and studentTDensity', () => {
     expect(relative(logGamma(0.5), 0.5 * Math.log(Math.PI))).toBeLessThan(1e-14);
   });
 });
+
+describe('Student t with infinite degrees of freedom', () => {
+  it('is the standard normal (normal 0.975 quantile 1.959963984540054, SciPy norm.ppf)', () => {
+    expect(relative(studentTQuantile(0.975, Infinity), 1.959963984540054)).toBeLessThan(1e-15);
+    expect(relative(studentTCdf(-1, Infinity), 0.15865525393145707)).toBeLessThan(1e-14);
+  });
+});
