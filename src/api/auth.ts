@@ -19,6 +19,13 @@ function unwrap(result: AuthResult, fallback: string): void {
   throw new ApiError(code ? code.toLowerCase() : 'auth_failed', text, status);
 }
 
+/** Whether the browser holds a live session cookie; answers false rather than failing with 401. */
+export async function hasSession(): Promise<boolean> {
+  const result = await authClient.getSession();
+  unwrap(result, 'Could not check the session.');
+  return Boolean(result.data?.session);
+}
+
 export async function signInWithEmail(email: string, password: string): Promise<void> {
   unwrap(await authClient.signIn.email({ email, password }), 'Sign-in failed.');
 }

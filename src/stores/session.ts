@@ -2,7 +2,7 @@ import { defineStore } from 'pinia';
 import { computed, ref } from 'vue';
 import type { MeResponse } from '../../shared/api/me.js';
 import type { WorkspaceRole, WorkspaceSummary } from '../../shared/api/workspaces.js';
-import { signInWithEmail, signOutOfSession, signUpWithEmail } from '@/api/auth';
+import { hasSession, signInWithEmail, signOutOfSession, signUpWithEmail } from '@/api/auth';
 import { ApiError } from '@/api/http';
 import { fetchMe } from '@/api/me';
 
@@ -56,13 +56,21 @@ export const useSessionStore = defineStore('session', () => {
     workspaces.value = me?.workspaces ?? [];
     const remembered = currentWorkspaceId.value ?? readStoredWorkspace();
     const keep = workspaces.value.find((w) => w.id === remembered);
-    currentWorkspaceId.value = keep?.id ?? workspaces.value[0]?.id ?? null;
+    // Without a remembered choice, start in a shared workspace: that is where the team's work is.
+    const shared = workspaces.value.find((w) => !w.personal);
+    currentWorkspaceId.value = keep?.id ?? shared?.id ?? workspaces.value[0]?.id ?? null;
     loaded.value = true;
   }
 
   /** Asks the server who is signed in. A 401 means signed out; other errors propagate. */
   async function refresh(): Promise<void> {
     try {
+      // Ask the auth routes first: they answer 200 with no session for a signed-out
+      // visitor, where /api/me would answer 401 and the browser would log it as an error.
+      if (!(await hasSession())) {
+        apply(null);
+        return;
+      }
       apply(await fetchMe());
     } catch (error) {
       if (error instanceof ApiError && error.isUnauthenticated) apply(null);

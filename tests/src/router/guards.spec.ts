@@ -1,4 +1,4 @@
-import { describe, expect, it, vi } from 'vitest';
+import { beforeAll, describe, expect, it, vi } from 'vitest';
 import { createMemoryHistory } from 'vue-router';
 import { createAppRouter, RouteName } from '@/router';
 import { roleAllows, safeRedirect, type SessionView } from '@/router/guards';
@@ -14,6 +14,17 @@ function fakeSession(overrides: Partial<SessionView> = {}): SessionView {
 }
 
 describe('route guard', () => {
+  // The routes load their views lazily; the first import of the UI kit is slow under a
+  // loaded test runner, so load them once up front instead of inside a timed test.
+  beforeAll(async () => {
+    await Promise.all([
+      import('@/views/SignInView.vue'),
+      import('@/views/LibraryView.vue'),
+      import('@/views/TeamView.vue'),
+      import('@/views/SharedView.vue'),
+    ]);
+  }, 60_000);
+
   it('sends a signed-out visitor of the library to sign-in and keeps where they were going', async () => {
     const router = createAppRouter(fakeSession(), createMemoryHistory());
 

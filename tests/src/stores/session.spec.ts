@@ -5,6 +5,7 @@ import { ApiError } from '@/api/http';
 
 vi.mock('@/api/me', () => ({ fetchMe: vi.fn() }));
 vi.mock('@/api/auth', () => ({
+  hasSession: vi.fn(),
   signInWithEmail: vi.fn(),
   signUpWithEmail: vi.fn(),
   signOutOfSession: vi.fn(),
@@ -30,11 +31,22 @@ beforeEach(() => {
   localStorage.clear();
   vi.mocked(fetchMe).mockReset();
   vi.mocked(auth.signInWithEmail).mockReset();
+  vi.mocked(auth.hasSession).mockReset().mockResolvedValue(true);
   vi.mocked(auth.signOutOfSession).mockReset();
 });
 
 describe('useSessionStore', () => {
-  it('treats a 401 from /api/me as signed out, not as a failure', async () => {
+  it('does not ask /api/me when the browser has no session', async () => {
+    vi.mocked(auth.hasSession).mockResolvedValue(false);
+    const session = useSessionStore();
+
+    await session.ensureLoaded();
+
+    expect(session.signedIn).toBe(false);
+    expect(fetchMe).not.toHaveBeenCalled();
+  });
+
+  it('treats a 401 from /api/me (session ended meanwhile) as signed out, not as a failure', async () => {
     vi.mocked(fetchMe).mockRejectedValue(new ApiError('unauthenticated', 'Sign in first.', 401));
     const session = useSessionStore();
 
@@ -64,6 +76,7 @@ describe('useSessionStore', () => {
 
     expect(auth.signInWithEmail).toHaveBeenCalledWith('ada@lab.test', 'secret-pass');
     expect(session.user?.name).toBe('Ada Tester');
+    session.selectWorkspace('w1');
     expect(session.currentWorkspace?.id).toBe('w1');
     expect(session.isAdminOfCurrent).toBe(true);
     expect(session.canCreateNotebooks).toBe(true);
@@ -83,18 +96,27 @@ describe('useSessionStore', () => {
     expect(session.roleIn('w1')).toBe('admin');
   });
 
+  it('starts in a shared workspace when none was chosen before', async () => {
+    vi.mocked(fetchMe).mockResolvedValue(me());
+    const session = useSessionStore();
+
+    await session.refresh();
+
+    expect(session.currentWorkspace?.name).toBe('Hill Lab');
+  });
+
   it('remembers the chosen workspace for the next load and ignores unknown ids', async () => {
     vi.mocked(fetchMe).mockResolvedValue(me());
     const first = useSessionStore();
     await first.refresh();
-    first.selectWorkspace('w2');
+    first.selectWorkspace('w1');
     first.selectWorkspace('nope');
 
     setActivePinia(createPinia());
     const second = useSessionStore();
     await second.refresh();
 
-    expect(second.currentWorkspace?.id).toBe('w2');
+    expect(second.currentWorkspace?.id).toBe('w1');
   });
 
   it('passes a sign-in error through and stays signed out', async () => {

@@ -5,6 +5,7 @@ import { createMemoryHistory, createRouter } from 'vue-router';
 import { ApiError } from '@/api/http';
 
 vi.mock('@/api/auth', () => ({
+  hasSession: vi.fn(),
   signInWithEmail: vi.fn(),
   signUpWithEmail: vi.fn(),
   signOutOfSession: vi.fn(),
@@ -44,6 +45,7 @@ async function fillAndSubmit(wrapper: Awaited<ReturnType<typeof mountSignIn>>['w
 
 beforeEach(() => {
   vi.mocked(auth.signInWithEmail).mockReset();
+  vi.mocked(auth.hasSession).mockReset().mockResolvedValue(true);
   vi.mocked(fetchMe).mockReset();
 });
 
