@@ -43,7 +43,8 @@ export function fitToRecording(parsed: ParsedFitLike, fileName: string, warnings
   const balance = new Float64Array(n).fill(NaN);
   let rightCount = 0;
   let unknownCount = 0;
-  const issues = { repeated: [] as number[], backwards: [] as number[], untimed: [] as number[] };
+  const keptRecord = new Int32Array(n);
+  const issues = { repeated: [] as number[], backwards: [] as number[], untimed: [] as number[], jumps: [] as number[] };
   let t0 = NaN;
   let last = -Infinity;
   let m = 0;
@@ -59,10 +60,24 @@ export function fitToRecording(parsed: ParsedFitLike, fileName: string, warnings
       k = m - 1;
       issues.repeated.push(r);
     } else if (ms < last) {
-      issues.backwards.push(r);
-      continue;
+      // A lone timestamp far ahead (a flipped bit) would make every later record look backwards:
+      // when this record fits after the sample before that one, the jumping sample is the one dropped.
+      if (m >= 2 && ms > t0 + time[m - 2]! * 1000) {
+        m--;
+        issues.jumps.push(keptRecord[m]!);
+        for (const col of cols) col[m] = NaN;
+        balance[m] = NaN;
+        k = m;
+        time[m++] = (ms - t0) / 1000;
+        keptRecord[m - 1] = r;
+        last = ms;
+      } else {
+        issues.backwards.push(r);
+        continue;
+      }
     } else {
       if (Number.isNaN(t0)) t0 = ms;
+      keptRecord[m] = r;
       time[m++] = (ms - t0) / 1000;
       last = ms;
     }
@@ -140,7 +155,7 @@ function settleBalance(balance: Float64Array, m: number, rightCount: number, unk
   return side;
 }
 
-function reportTimeIssues(issues: { repeated: number[]; backwards: number[]; untimed: number[] }, fileName: string, warnings: EngineWarning[], recordBytes: (k: number) => number | undefined): void {
+function reportTimeIssues(issues: { repeated: number[]; backwards: number[]; untimed: number[]; jumps: number[] }, fileName: string, warnings: EngineWarning[], recordBytes: (k: number) => number | undefined): void {
   const say = (code: string, list: number[], what: string): void => {
     if (list.length === 0) return;
     const first = list[0]!;
@@ -155,6 +170,7 @@ function reportTimeIssues(issues: { repeated: number[]; backwards: number[]; unt
   say('fit_repeated_timestamp', issues.repeated, 'repeat the previous timestamp and were merged into it (missing fields filled, existing values kept)');
   say('fit_backward_timestamp', issues.backwards, 'have a timestamp earlier than the one before and were dropped');
   say('fit_missing_timestamp', issues.untimed, 'have no timestamp and were dropped');
+  say('fit_timestamp_jump', issues.jumps, 'jump ahead of the records around them and were dropped');
 }
 
 /** Throws when no sample survived or the file has no usable time (kept separate so callers can explain). */

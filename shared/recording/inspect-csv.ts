@@ -79,7 +79,8 @@ function guessMapping(names: string[], data: string[][], hasHeader: boolean, del
     const guess = hasHeader ? guessHeader(name) : undefined;
     const cell = data.find((r) => (r[i] ?? '').trim() !== '')?.[i] ?? '';
     if (guess?.field === 'time' || (!hasHeader && i === 0)) {
-      const format = detectTimeFormat(cell);
+      // With ';' as delimiter, a comma is the decimal mark.
+      const format = detectTimeFormat(delimiter === ';' ? cell.replace(',', '.') : cell);
       if (!time && format) time = { column: name, format };
       return;
     }

@@ -76,7 +76,8 @@ function readCsv(text: string, fileName: string, given: CsvMapping | undefined, 
   for (let r = firstData; r < rows.length; r++) {
     const row = rows[r]!;
     if (isBlank(row)) continue;
-    const raw = parseTimeCell(row[timeAt] ?? '', mapping.time.format);
+    const timeCell = row[timeAt] ?? '';
+    const raw = parseTimeCell(decimalComma ? timeCell.replace(',', '.') : timeCell, mapping.time.format);
     if (Number.isNaN(raw)) {
       issues.badTime.push(r + 1);
       continue;

@@ -200,6 +200,15 @@ describe('parseFit on hand-made files', () => {
     expect(result.warnings[1]!.message).toContain('clock.fit');
   });
 
+  it('drops a lone timestamp that jumps far ahead instead of every record after it', async () => {
+    const base = records(15, start);
+    base[7] = { record: { timestamp: fitSeconds(start) + 7 + 2 ** 20, power: 1 } }; // one flipped bit
+    const result = await parseFit(handmadeFit(base), 'jump.fit');
+    expect(result.ok && result.recording.time.length).toBe(14);
+    expect(result.ok && Array.from(result.recording.columns.power!)).not.toContain(1);
+    expect(result.ok && result.warnings.map((w) => [w.code, w.where?.record])).toEqual([['fit_timestamp_jump', 7]]);
+  });
+
   it('counts paused time from timer stop/start pairs', async () => {
     const t = fitSeconds(start);
     const bytes = handmadeFit([
