@@ -1,3 +1,4 @@
+import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
 import { mean, sampleStandardDeviation, sum as ssSum } from 'simple-statistics';
 import { summary } from '../../../../shared/engine/stats/summary.js';
@@ -95,5 +96,25 @@ describe('summary edge cases', () => {
 
   it('a constant column has SD exactly 0', () => {
     expect(summary(new Float64Array(100).fill(1000000.1)).sd).toBe(0);
+  });
+});
+
+describe('summary properties (fast-check)', () => {
+  it('adding a large offset moves the mean by the offset and leaves the SD (two-pass keeps the digits)', () => {
+    fc.assert(
+      fc.property(
+        fc.array(fc.integer({ min: -1000, max: 1000 }), { minLength: 2, maxLength: 60 }),
+        fc.integer({ min: -1e9, max: 1e9 }),
+        (values, offset) => {
+          // Integers (in tenths of a watt) stay exact after the shift, so any loss is the algorithm's.
+          const base = summary(values);
+          const shifted = summary(values.map((v) => v + offset));
+          expect(shifted.mean - offset).toBeCloseTo(base.mean, 6);
+          if (base.sd > 0) expect(Math.abs(shifted.sd - base.sd) / base.sd).toBeLessThan(1e-6);
+          else expect(shifted.sd).toBe(0);
+        },
+      ),
+      { seed: 17, numRuns: 300 },
+    );
   });
 });
