@@ -8,7 +8,8 @@ import type {
   RevisionSummary,
   SaveNotebookBody,
 } from '../../shared/api/notebooks.js';
-import { notebookDocumentSchema, type NotebookDocument } from '../../shared/notebook/document.js';
+import type { NotebookDocument } from '../../shared/notebook/document.js';
+import { migrateNotebookDocument } from '../../shared/notebook/migrate-document.js';
 import type { Db } from '../db/client.js';
 import * as repo from '../db/repositories/notebooks.js';
 import { findUsersByEmails } from '../db/repositories/users.js';
@@ -109,9 +110,9 @@ async function append(db: Db, userId: string, notebookId: string, base: number, 
   }
 }
 
-/** Stored documents were validated on write; parsing again fills defaults of newer optional fields. */
+/** Stored documents may be of an older format version: bring them to the current one. */
 function readDocument(stored: unknown): NotebookDocument {
-  return notebookDocumentSchema.parse(stored);
+  return migrateNotebookDocument(stored);
 }
 
 function toMeta(nb: repo.NotebookAccessRecord): NotebookMeta {
