@@ -1,4 +1,5 @@
 import { rollingMean } from './rolling-mean.js';
+import { olsFit } from './stats/index.js';
 import type { Segment } from './segment.js';
 
 /** Parameters of {@link detectSteadyBlocks}; reports show them beside the blocks. */
@@ -13,9 +14,9 @@ export interface SteadyBlockOptions {
   trimS?: number;
   /** Blocks whose mean is below this are coasting or rest, not steady effort, W (default 50). */
   minPowerW?: number;
-  /** Excursions out of the band shorter than this do not end a block, seconds (default 5). */
+  /** Excursions out of the band shorter than this do not end a block, seconds (default 10). */
   graceS?: number;
-  /** Missing stretches longer than this end a block, seconds (default 5). */
+  /** Missing stretches longer than this (a pause, a long dropout) end a block, seconds (default 20). */
   maxGapS?: number;
 }
 
@@ -26,16 +27,17 @@ export const STEADY_BLOCK_DEFAULTS: Required<SteadyBlockOptions> = {
   smoothS: 6,
   trimS: 3,
   minPowerW: 50,
-  graceS: 5,
-  maxGapS: 5,
+  graceS: 10,
+  maxGapS: 20,
 };
 
 /**
  * Finds steady-state blocks in the reference power on a regular grid: stretches where
  * the smoothed power stays within ±tolerancePct of the block's running mean (short
- * excursions forgiven), whose first and last quarters agree within half the tolerance
- * (so a slow ramp is not taken for a block), at least minDurationS long after trimming
- * trimS from both ends. One greedy pass: O(n).
+ * excursions and dropouts forgiven, neighbouring stretches at the same level joined across
+ * a longer excursion), whose linear trend over the block stays within the
+ * tolerance (so a slow ramp is not taken for a block), at least minDurationS long after
+ * trimming trimS from both ends. One greedy pass: O(n).
  *
  * @param timeS the grid (seconds from the reference's first sample), regular spacing
  * @param powerW reference power on that grid, NaN = missing
@@ -53,7 +55,9 @@ export function detectSteadyBlocks(timeS: Float64Array, powerW: Float64Array, op
   const graceN = Math.max(0, Math.round(p.graceS / dt));
   const gapN = Math.max(0, Math.round(p.maxGapS / dt));
   const s = rollingMean(powerW, smoothN, { align: 'centred', minCount: Math.ceil(smoothN / 2) });
-  const blocks: Segment[] = [];
+  // Pass 1: greedy runs inside the band. Pass 2: join neighbouring runs at the same
+  // level that a longer excursion (a rider's surge) split. Pass 3: trim and keep.
+  const runs: { from: number; to: number; mean: number }[] = [];
   let i = 0;
   while (i < n) {
     const first = s[i]!;
@@ -79,9 +83,22 @@ export function detectSteadyBlocks(timeS: Float64Array, powerW: Float64Array, op
       count++;
       lastGood = k;
     }
-    const block = trimmedBlock(timeS, powerW, s, i, lastGood, dt, p, tol);
-    if (block) blocks.push(block);
+    const run = { from: i, to: lastGood, mean: sum / count };
+    const last = runs[runs.length - 1];
+    if (last !== undefined && run.from - last.to <= 2 * graceN + 1 && Math.abs(run.mean - last.mean) <= tol * last.mean) {
+      const a = last.to - last.from + 1;
+      const b = run.to - run.from + 1;
+      last.mean = (last.mean * a + run.mean * b) / (a + b);
+      last.to = run.to;
+    } else {
+      runs.push(run);
+    }
     i = lastGood + 1;
+  }
+  const blocks: Segment[] = [];
+  for (const run of runs) {
+    const block = trimmedBlock(timeS, powerW, s, run.from, run.to, dt, p, tol);
+    if (block) blocks.push(block);
   }
   return blocks;
 }
@@ -101,11 +118,9 @@ function trimmedBlock(
   if (endS - startS < p.minDurationS - 1e-9) return undefined;
   const a = from + Math.round(p.trimS / dt);
   const b = to - Math.round(p.trimS / dt);
-  const quarter = Math.max(1, Math.floor((b - a + 1) / 4));
-  const head = finiteMean(smooth, a, a + quarter);
-  const tail = finiteMean(smooth, b - quarter + 1, b + 1);
   const meanW = finiteMean(powerW, a, b + 1);
-  if (!(meanW >= p.minPowerW) || Math.abs(tail - head) > (tol / 2) * meanW) return undefined;
+  const trendW = olsFit(timeS.subarray(a, b + 1), smooth.subarray(a, b + 1)).slope * (endS - startS);
+  if (!(meanW >= p.minPowerW) || Math.abs(trendW) > 2 * tol * meanW) return undefined;
   return { startS, endS, kind: 'steady', meanW };
 }
 

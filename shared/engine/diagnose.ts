@@ -105,7 +105,7 @@ export function diagnose(table: Table, options: DiagnoseOptions = {}): Diagnosis
   const meanRef = meanOf(ref, pedalling);
   const overRideW = fit.wPerHour * hours;
   const drift = {
-    detected: Math.abs(fit.wPerHour) >= 4 * fit.seWPerHour && Math.abs(overRideW) >= Math.max(3, 0.01 * meanRef),
+    detected: Math.abs(fit.wPerHour) >= 4 * fit.seWPerHour && Math.abs(overRideW) >= Math.max(4, 0.015 * meanRef),
     wPerHour: fit.wPerHour,
     seWPerHour: fit.seWPerHour,
     overRideW,

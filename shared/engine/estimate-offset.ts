@@ -60,11 +60,16 @@ export function estimateOffset(reference: Recording, test: Recording, options: E
   }
   const refStart = reference.time.length > 0 ? reference.time[0]! : 0;
   const refCount = reference.time.length > 0 ? Math.floor((reference.time[reference.time.length - 1]! - refStart) / dt + 1e-9) + 1 : 0;
-  const r = resampleColumn(reference.time, refPower, { startS: refStart, intervalS: dt, count: refCount, sourceIntervalS: reference.meta.sampleIntervalS });
+  // Point readings, not bin means: a bin mean is centred half a step away from a
+  // point sample, which would leave two neighbouring lags tied when a 10 Hz file meets
+  // a 1 Hz one.
+  const read = (r: Recording, values: Float64Array, startS: number, count: number): Float64Array =>
+    resampleColumn(r.time, values, { startS, intervalS: dt, count, sourceIntervalS: r.meta.sampleIntervalS, binMean: false });
+  const r = read(reference, refPower, refStart, refCount);
 
   if (options.manualOffsetS !== undefined) {
     const shift = shiftForOffset(reference, test, options.manualOffsetS);
-    const s = resampleColumn(test.time, testPower, { startS: refStart + shift, intervalS: dt, count: refCount, sourceIntervalS: test.meta.sampleIntervalS });
+    const s = read(test, testPower, refStart + shift, refCount);
     return { offsetSeconds: options.manualOffsetS, correlation: pearson(s, r), confidence: NaN, method: 'manual' };
   }
 
@@ -75,7 +80,7 @@ export function estimateOffset(reference: Recording, test: Recording, options: E
   const testLast = test.time.length > 0 ? test.time[test.time.length - 1]! : -1;
   const sStart = refStart + base + Math.ceil((testFirst - (refStart + base)) / dt - 1e-9) * dt;
   const sCount = testLast >= sStart ? Math.floor((testLast - sStart) / dt + 1e-9) + 1 : 0;
-  const s = resampleColumn(test.time, testPower, { startS: sStart, intervalS: dt, count: sCount, sourceIntervalS: test.meta.sampleIntervalS });
+  const s = read(test, testPower, sStart, sCount);
   // s[j] pairs with r[i] when offset = (q + j - i) * dt.
   const q = Math.round((sStart - base - refStart) / dt);
 

@@ -15,6 +15,8 @@ export interface ResampleColumnOptions {
   mode?: ResampleMode;
   /** Source sample spacing, seconds; estimated from the time span when omitted. */
   sourceIntervalS?: number;
+  /** Average a denser source over each grid bin (default true); false reads it at the grid time like a coarse one. */
+  binMean?: boolean;
 }
 
 /**
@@ -53,7 +55,7 @@ export function resampleColumn(time: Float64Array, values: Float64Array, options
     }
     return out;
   }
-  if (sourceIntervalS > 0 && sourceIntervalS < 0.75 * intervalS) {
+  if (options.binMean !== false && sourceIntervalS > 0 && sourceIntervalS < 0.75 * intervalS) {
     const half = intervalS / 2;
     let lo = 0;
     for (let k = 0; k < count; k++) {
