@@ -1,0 +1,60 @@
+import type { EngineErrorData } from './errors.js';
+import type { CompareOptions } from './engine/compare-options.js';
+import type { CompareReport } from './engine/compare-report.js';
+import type { CellOutput } from './notebook/cell-output.js';
+import type { NotebookDocument } from './notebook/document.js';
+import type { TableSeries, TableWindow } from './notebook/table-window.js';
+import type { CsvInspection } from './recording/inspect-csv.js';
+import type { ImportOptions, ImportResult } from './recording/import-result.js';
+import type { Recording } from './recording/recording.js';
+
+/** Options of {@link EngineApi.runNotebook}. */
+export interface EngineRunOptions {
+  /** Stop a formula or chart cell after this long, ms (the runner checks; the host also enforces a hard limit). */
+  cellTimeLimitMs?: number;
+  /** Called (through the worker boundary) before each cell is computed. */
+  onCellStart?: (cellId: string) => void;
+}
+
+/** The result of a run as it crosses the worker boundary (the cache stays in the worker). */
+export interface EngineRunResult {
+  outputs: Record<string, CellOutput>;
+  /** Cell ids in run order. */
+  order: string[];
+  /** Cells computed in this run; the others came from the worker's cache. */
+  computed: string[];
+  /** Wall time of the whole run, ms. */
+  durationMs: number;
+}
+
+/** An import that also binds the recording to a notebook slot inside the worker. */
+export interface EngineImportOptions extends ImportOptions {
+  /** Keep the recording in the worker as the input of this slot (by slot name). */
+  slot?: string;
+}
+
+/**
+ * What the engine web worker exposes (through comlink; every method is async across
+ * the boundary). The worker keeps, between calls, the recordings bound to slots and the
+ * notebook run cache, so a run after an edit recomputes only what changed.
+ */
+export interface EngineApi {
+  /** Reads a FIT or CSV file; with `slot`, also binds the recording to that slot. Never throws. */
+  importRecording(bytes: Uint8Array, fileName: string, options?: EngineImportOptions): Promise<ImportResult>;
+  /** Columns, preview rows and a guessed mapping of a CSV text, for the mapping form. */
+  inspectCsv(text: string, fileName?: string): Promise<CsvInspection>;
+  /** Binds (or with null, clears) the recording of each named slot. */
+  bindSlots(recordings: Record<string, Recording | null>): Promise<void>;
+  /** Names of the slots that hold a recording in the worker. */
+  boundSlots(): Promise<string[]>;
+  /** Runs the notebook on the bound slots, reusing the worker's cache. */
+  runNotebook(document: NotebookDocument, options?: EngineRunOptions): Promise<EngineRunResult>;
+  /** Rows [from, from + count) of a cell's table from the last run (undefined: no table, or not computed). */
+  readCellTable(cellId: string, from: number, count: number): Promise<TableWindow | undefined>;
+  /** One column of a cell's table against time, thinned to `maxPoints` for a preview chart. */
+  readCellSeries(cellId: string, column: string, maxPoints: number): Promise<TableSeries | undefined>;
+  /** Forgets cached cell results (the next run recomputes everything). */
+  clearCache(): Promise<void>;
+  /** Compares devices under test with a reference (the one-shot report, outside notebooks). */
+  compare(reference: Recording, tests: Recording[], options?: CompareOptions): Promise<{ ok: true; report: CompareReport } | { ok: false; error: EngineErrorData }>;
+}
