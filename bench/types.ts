@@ -13,3 +13,12 @@ export interface BenchRow {
   ratio: number;
   note?: string;
 }
+
+/** What every benchmark module is given. */
+export interface BenchOptions {
+  /** Smaller sizes and fewer repetitions: a smoke test that the benchmark runs, not a figure to quote. */
+  quick: boolean;
+}
+
+/** A benchmark module's entry point: measures and returns its rows. */
+export type Bench = (options: BenchOptions) => Promise<BenchRow[]>;
