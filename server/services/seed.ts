@@ -1,5 +1,6 @@
 import type { WorkspaceRole } from '../../shared/api/workspaces.js';
 import type { Auth } from '../auth.js';
+import { seedDemoLab } from '../demo/seed-demo-lab.js';
 import type { Db } from '../db/client.js';
 import { countUsers, findUserByEmail } from '../db/repositories/users.js';
 import { insertMember } from '../db/repositories/workspaces.js';
@@ -34,7 +35,7 @@ export interface DemoSeed {
  * rides, demo notebooks) push a step here; each receives the ids of what the seed made.
  */
 export type DemoStep = (services: DemoServices, seed: DemoSeed) => Promise<void>;
-export const demoSteps: DemoStep[] = [];
+export const demoSteps: DemoStep[] = [seedDemoLab];
 
 /**
  * Creates the demo lab with an admin, an analyst and a viewer, on an empty database
