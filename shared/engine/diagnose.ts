@@ -1,6 +1,7 @@
 import { detectSingleSided, type SingleSidedCheck } from './detect-single-sided.js';
 import { fitLegGearGains, type GainCell } from './fit-leg-gear-gains.js';
-import { driftFit, olsFit } from './stats/index.js';
+import { fitLinearModel } from './fit-linear-model.js';
+import { olsFit } from './stats/index.js';
 import type { Table } from './table.js';
 
 /** Options of {@link diagnose}. */
@@ -98,9 +99,7 @@ export function diagnose(table: Table, options: DiagnoseOptions = {}): Diagnosis
 
   const corrected = removeGains(table, explained, gains);
   const residualTotalPct = ratioPct(corrected, ref);
-  const diff = new Float64Array(n);
-  for (let i = 0; i < n; i++) diff[i] = corrected[i]! - ref[i]!;
-  const fit = driftFit(table.timeS, diff, pedalling);
+  const fit = fitDrift(table, pedalling);
   const hours = n > 1 ? (table.timeS[n - 1]! - table.timeS[0]!) / 3600 : 0;
   const meanRef = meanOf(ref, pedalling);
   const overRideW = fit.wPerHour * hours;
@@ -132,6 +131,32 @@ export function diagnose(table: Table, options: DiagnoseOptions = {}): Diagnosis
     findings.push(`No leg, chainring, offset or drift effect stands out: every leg and chainring agrees within ${worst.toFixed(1)}%.`);
   }
   return { minEffectPct, gains, explained, withinLegs, residualTotalPct, zeroOffset, drift, singleSided, findings };
+}
+
+/**
+ * Drift in W per hour from one model of the test total: a gain per reference leg per
+ * chainring, a constant, and a term linear in time. Fitting them together keeps a
+ * gear-dependent gain (chainrings used at different times of the ride) from passing for
+ * drift, and drift from passing for a gain.
+ */
+function fitDrift(table: Table, pedalling: Uint8Array): { wPerHour: number; seWPerHour: number } {
+  const c = table.columns;
+  const n = table.timeS.length;
+  const legs = c.ref_left !== undefined && c.ref_right !== undefined ? [c.ref_left, c.ref_right] : [c.ref_power!];
+  const front = c.front_teeth;
+  const states = new Set<number>();
+  for (let i = 0; i < n; i++) if (pedalling[i]) states.add(front === undefined || !Number.isFinite(front[i]!) ? -1 : front[i]!);
+  const regressors: Float64Array[] = [];
+  for (const leg of legs) {
+    for (const state of states) {
+      regressors.push(Float64Array.from(leg, (v, i) => ((front === undefined || !Number.isFinite(front[i]!) ? -1 : front[i]!) === state ? v : 0)));
+    }
+  }
+  const t0 = n > 0 ? table.timeS[0]! : 0;
+  regressors.push(new Float64Array(n).fill(1), Float64Array.from(table.timeS, (t) => (t - t0) / 3600));
+  const fit = fitLinearModel(regressors, c.test_power!, pedalling);
+  const k = regressors.length - 1;
+  return { wPerHour: fit.coefficients[k]!, seWPerHour: fit.standardErrors[k]! };
 }
 
 /**
