@@ -12,8 +12,6 @@ import type { Recording } from './recording/recording.js';
 export interface EngineRunOptions {
   /** Stop a formula or chart cell after this long, ms (the runner checks; the host also enforces a hard limit). */
   cellTimeLimitMs?: number;
-  /** Called (through the worker boundary) before each cell is computed. */
-  onCellStart?: (cellId: string) => void;
 }
 
 /** The result of a run as it crosses the worker boundary (the cache stays in the worker). */
@@ -47,8 +45,12 @@ export interface EngineApi {
   bindSlots(recordings: Record<string, Recording | null>): Promise<void>;
   /** Names of the slots that hold a recording in the worker. */
   boundSlots(): Promise<string[]>;
-  /** Runs the notebook on the bound slots, reusing the worker's cache. */
-  runNotebook(document: NotebookDocument, options?: EngineRunOptions): Promise<EngineRunResult>;
+  /**
+   * Runs the notebook on the bound slots, reusing the worker's cache. `onCellStart` is
+   * called before each computed cell; it is a separate argument because comlink proxies
+   * callbacks only at the top level of a call (wrap it with `Comlink.proxy`).
+   */
+  runNotebook(document: NotebookDocument, options?: EngineRunOptions, onCellStart?: (cellId: string) => void): Promise<EngineRunResult>;
   /** Rows [from, from + count) of a cell's table from the last run (undefined: no table, or not computed). */
   readCellTable(cellId: string, from: number, count: number): Promise<TableWindow | undefined>;
   /** One column of a cell's table against time, thinned to `maxPoints` for a preview chart. */

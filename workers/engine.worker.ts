@@ -36,9 +36,9 @@ const api: EngineApi = {
   async boundSlots() {
     return [...slots.keys()];
   },
-  async runNotebook(document, options = {}) {
+  async runNotebook(document, options = {}, onCellStart) {
     const started = performance.now();
-    const { onCellStart, cellTimeLimitMs } = options;
+    const { cellTimeLimitMs } = options;
     const result = runNotebook(document, Object.fromEntries(slots), cache, {
       engine: formulaEngine,
       ...(cellTimeLimitMs !== undefined ? { cellTimeLimitMs } : {}),

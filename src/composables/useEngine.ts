@@ -81,7 +81,7 @@ export function createEngineClient(options: EngineClientOptions = {}) {
       timer = setTimeout(() => resolve('timeout'), runTimeLimitMs);
     });
     try {
-      const result = await Promise.race([api.runNotebook(document, { cellTimeLimitMs, onCellStart }), timedOut]);
+      const result = await Promise.race([api.runNotebook(document, { cellTimeLimitMs }, onCellStart), timedOut]);
       if (result !== 'timeout') {
         outputs.value = result.outputs;
         lastRun.value = { durationMs: result.durationMs, computed: result.computed };

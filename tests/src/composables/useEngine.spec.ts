@@ -1,0 +1,89 @@
+import * as Comlink from 'comlink';
+import { afterEach, describe, expect, it } from 'vitest';
+import { createEngineClient, type EngineClient } from '@/composables/useEngine';
+import type { EngineApi, EngineRunOptions } from '../../../shared/engine-api.js';
+import { emptyNotebook, type NotebookDocument } from '../../../shared/notebook/index.js';
+import type { Recording } from '../../../shared/recording/recording.js';
+
+/** A stand-in worker: a comlink endpoint on a MessageChannel, serving `api`. */
+function fakeWorker(api: Partial<EngineApi>, log: { terminated: number }): Worker {
+  const { port1, port2 } = new MessageChannel();
+  Comlink.expose(api, port2);
+  port1.start();
+  return Object.assign(port1, {
+    terminate: () => {
+      log.terminated++;
+      port1.close();
+      port2.close();
+    },
+  }) as unknown as Worker;
+}
+
+const doc: NotebookDocument = {
+  ...emptyNotebook('Timing'),
+  cells: [
+    { id: 'c1', kind: 'formula', name: 'quick', config: { source: 'x = 1' } },
+    { id: 'c2', kind: 'formula', name: 'slow', config: { source: 'y = 2' } },
+  ],
+};
+
+let client: EngineClient | undefined;
+afterEach(() => client?.dispose());
+
+describe('createEngineClient', () => {
+  it('stops a run over the time limit, names the running cell and starts a fresh worker with the slots bound again', async () => {
+    const log = { terminated: 0 };
+    const bindings: string[][] = [];
+    let workers = 0;
+    client = createEngineClient({
+      runTimeLimitMs: 100,
+      createWorker: () => {
+        workers++;
+        return fakeWorker(
+          {
+            bindSlots: async (r: Record<string, Recording | null>) => void bindings.push(Object.keys(r)),
+            // Reports that cell c2 started, then never finishes.
+            runNotebook: async (_d: NotebookDocument, _o?: EngineRunOptions, onCellStart?: (id: string) => void) => {
+              await onCellStart?.('c2');
+              return new Promise<never>(() => undefined);
+            },
+          },
+          log,
+        );
+      },
+    });
+    await client.bindSlots({ reference: { meta: {}, time: new Float64Array(1), columns: {}, events: [], warnings: [] } as unknown as Recording });
+    const outcome = await client.run(doc);
+    expect(outcome.ok).toBe(false);
+    expect(!outcome.ok && outcome.error).toMatchObject({ code: 'run_timeout', where: { cell: 'c2' } });
+    expect(!outcome.ok && outcome.error.message).toContain('cell "slow"');
+    expect(client.outputs.value['c2']).toMatchObject({ state: 'failed', error: { code: 'run_timeout' } });
+    expect(log.terminated).toBe(1);
+    expect(workers).toBe(2);
+    expect(bindings).toEqual([['reference'], ['reference']]);
+    expect(client.phase.value).toBe('idle');
+  });
+
+  it('keeps the outputs of a run that finishes', async () => {
+    const log = { terminated: 0 };
+    client = createEngineClient({
+      createWorker: () =>
+        fakeWorker(
+          {
+            runNotebook: async () => ({
+              outputs: { c1: { cellId: 'c1', name: 'quick', kind: 'formula', state: 'fresh', durationMs: 1, cached: false, warnings: [] } },
+              order: ['c1'],
+              computed: ['c1'],
+              durationMs: 3,
+            }),
+          },
+          log,
+        ),
+    });
+    const outcome = await client.run(doc);
+    expect(outcome.ok).toBe(true);
+    expect(client.outputs.value['c1']!.state).toBe('fresh');
+    expect(client.lastRun.value).toEqual({ durationMs: 3, computed: ['c1'] });
+    expect(log.terminated).toBe(0);
+  });
+});
