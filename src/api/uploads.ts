@@ -63,3 +63,25 @@ export function uploadRecordings(files: readonly File[], options: UploadOptions 
 export function getUpload(id: string): Promise<UploadMeta> {
   return request(`/api/uploads/${encodeURIComponent(id)}`);
 }
+
+/** The stored bytes of an upload, for the engine worker to read. */
+export async function fetchUploadContent(id: string, signal?: AbortSignal): Promise<Uint8Array> {
+  let response: Response;
+  try {
+    response = await fetch(`/api/uploads/${encodeURIComponent(id)}/content`, { credentials: 'same-origin', signal });
+  } catch (cause) {
+    if (cause instanceof DOMException && cause.name === 'AbortError') throw cause;
+    throw new ApiError('network', 'Cogbook could not reach its server to read a recording.', 0);
+  }
+  if (!response.ok) {
+    const text = await response.text();
+    let body: unknown = text;
+    try {
+      body = JSON.parse(text) as unknown;
+    } catch {
+      // not JSON: toApiError falls back to the status
+    }
+    throw toApiError(response.status, response.statusText, body);
+  }
+  return new Uint8Array(await response.arrayBuffer());
+}
