@@ -8,7 +8,7 @@ import { toNodeHandler } from 'better-auth/node';
 import { CLIENT_IP_HEADER, createAuth, type Auth } from './auth.js';
 import type { AppContext, AppDeps } from './context.js';
 import { errorHandler, notFoundHandler } from './middleware/error-handler.js';
-import { ENGINE_WORKER_CSP, isEngineWorkerAsset, securityHeaders } from './middleware/security.js';
+import { ENGINE_WORKER_CSP, isEngineWorkerAsset, originGuard, securityHeaders } from './middleware/security.js';
 import { requireSession } from './middleware/session.js';
 import { healthRoutes } from './routes/health.js';
 import { notebookRoutes } from './routes/notebooks.js';
@@ -57,7 +57,7 @@ export function createApp(deps: AppDeps): AppHandle {
   app.use(securityHeaders());
 
   mountAuth(app, ctx);
-  app.use('/api', express.json({ limit: JSON_LIMIT }));
+  app.use('/api', originGuard(deps.config.trustedOrigins), express.json({ limit: JSON_LIMIT }));
   app.use('/api', healthRoutes(ctx));
   const signedIn = requireSession(auth);
   app.use('/api/workspaces', signedIn, workspaceRoutes(ctx));

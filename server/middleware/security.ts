@@ -39,3 +39,19 @@ export const ENGINE_WORKER_CSP =
 export function isEngineWorkerAsset(fileName: string): boolean {
   return /^engine\.worker/.test(fileName);
 }
+
+/**
+ * Refuses state-changing API calls whose Origin header names another site. Cookies
+ * are SameSite=Lax already; this also covers old browsers and same-site subdomains.
+ * Requests without Origin (curl, server-to-server) pass: they carry no ambient cookie
+ * from a browser visit.
+ */
+export function originGuard(trustedOrigins: string[]): RequestHandler {
+  const trusted = new Set(trustedOrigins);
+  return (req, res, next) => {
+    if (req.method === 'GET' || req.method === 'HEAD' || req.method === 'OPTIONS') return next();
+    const origin = req.headers.origin;
+    if (origin === undefined || trusted.has(origin)) return next();
+    res.status(403).json({ error: { code: 'forbidden_origin', message: `Requests from ${origin} are not accepted.` } });
+  };
+}
