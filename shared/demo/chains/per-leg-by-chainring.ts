@@ -22,7 +22,7 @@ export function perLegByChainringCells(testLabel: string): NotebookCell[] {
     importCell('import-reference', 'ref', 'reference'),
     importCell('import-test', 'dut', 'test'),
     transformCell('align', 'aligned', { op: 'align', reference: 'ref', test: 'dut', mode: 'auto', maxLagS: 120 }),
-    transformCell('steady-blocks', 'blocks', { op: 'segment', source: 'aligned', method: 'steady', tolerancePct: 5, minDurationS: 120 }),
+    transformCell('steady-blocks', 'blocks', { op: 'segment', source: 'aligned', method: 'steady', tolerancePct: 5, minDurationS: 180 }),
     transformCell('gears', 'geared', { op: 'gears', source: 'blocks', method: 'events' }),
     formulaCell('per-leg', 'legs', [
       'steady = geared.segment > 0',

@@ -20,7 +20,7 @@ export function steadyBlockCells(testLabel: string): NotebookCell[] {
     importCell('import-reference', 'ref', 'reference'),
     importCell('import-test', 'dut', 'test'),
     transformCell('align', 'aligned', { op: 'align', reference: 'ref', test: 'dut', mode: 'auto', maxLagS: 120 }),
-    transformCell('steady-blocks', 'blocks', { op: 'segment', source: 'aligned', method: 'steady', tolerancePct: 5, minDurationS: 120 }),
+    transformCell('steady-blocks', 'blocks', { op: 'segment', source: 'aligned', method: 'steady', tolerancePct: 5, minDurationS: 180 }),
     formulaCell('per-block', 'per_block', [
       'block_ref_w = persegment(blocks.ref_power, blocks.segment)',
       'block_test_w = persegment(blocks.test_power, blocks.segment)',
