@@ -66,7 +66,8 @@ export function parseCompareArgs(argv: string[]): CompareArgs {
       },
     }));
   } catch (error) {
-    throw new UsageError(error instanceof Error ? error.message.split('\n')[0]! : String(error));
+    const reason = error instanceof Error ? error.message.split('\n')[0]! : String(error);
+    throw new UsageError(`${reason} (see --help)`);
   }
   if (values.help) return { referencePath: '', testPaths: [], json: false, help: true, options: {} };
   if (values.reference === undefined) throw new UsageError('missing --reference FILE (the trusted device)');

@@ -21,6 +21,7 @@ export { buildSelection, type Band, type SelectionColumns, type SelectionSpec } 
 export { sideMeans, mapSides, type SideMeans, type Sides } from './side-means.js';
 export { comparePair, type ComparePairOptions, type PairStats } from './compare-pair.js';
 export { fitLegGearGains, type FitLegGearGainsOptions, type GainCell } from './fit-leg-gear-gains.js';
+export { fitLinearModel, type LinearModelFit } from './fit-linear-model.js';
 export { detectSingleSided, type SingleSidedCheck } from './detect-single-sided.js';
 export { diagnose, type Diagnosis, type DiagnoseOptions, type GainFinding } from './diagnose.js';
 export { decideVerdict, type Verdict, type VerdictCheck, type VerdictInput, type VerdictOptions } from './decide-verdict.js';
