@@ -55,6 +55,8 @@ export interface EngineApi {
   readCellTable(cellId: string, from: number, count: number): Promise<TableWindow | undefined>;
   /** One column of a cell's table against time, thinned to `maxPoints` for a preview chart. */
   readCellSeries(cellId: string, column: string, maxPoints: number): Promise<TableSeries | undefined>;
+  /** Cells the next run would compute (changed since the last run, or reading a changed cell): show them as stale. */
+  staleCells(document: NotebookDocument): Promise<string[]>;
   /** Forgets cached cell results (the next run recomputes everything). */
   clearCache(): Promise<void>;
   /** Compares devices under test with a reference (the one-shot report, outside notebooks). */

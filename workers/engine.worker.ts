@@ -5,7 +5,7 @@ import type { EngineApi } from '../shared/engine-api.js';
 import { isEngineError } from '../shared/errors.js';
 import { compareRecordings } from '../shared/engine/compare.js';
 import { createFormulaEngine } from '../shared/formula/create-formula-engine.js';
-import { runNotebook, type RunCache } from '../shared/notebook/run-notebook.js';
+import { runNotebook, staleCells, type RunCache } from '../shared/notebook/run-notebook.js';
 import { tableSeries, tableWindow } from '../shared/notebook/table-window.js';
 import { importRecording } from '../shared/recording/import-recording.js';
 import { inspectCsv } from '../shared/recording/inspect-csv.js';
@@ -55,6 +55,9 @@ const api: EngineApi = {
   async readCellSeries(cellId, column, maxPoints) {
     const entry = cache?.entries[cellId];
     return entry ? tableSeries(entry.value, column, maxPoints) : undefined;
+  },
+  async staleCells(document) {
+    return staleCells(document, Object.fromEntries(slots), cache, { engine: formulaEngine });
   },
   async clearCache() {
     cache = undefined;

@@ -118,6 +118,7 @@ export const formulaConfigSchema = z.object({
   source: z.string().max(20_000).default(''),
 });
 
+/** The chart presets: each has a builder in shared/charts. */
 export const chartPresetSchema = z.enum(['traces', 'difference', 'scatter', 'bland-altman', 'bars-tolerance', 'left-right']);
 
 /**
@@ -138,14 +139,23 @@ export const chartConfigSchema = z.object({
 /** Note cell: Markdown text. */
 export const noteConfigSchema = z.object({ markdown: z.string().max(50_000).default('') });
 
+/** Config of an import cell. */
 export type ImportConfig = z.infer<typeof importConfigSchema>;
+/** Config of a transform cell (one of the ops). */
 export type TransformConfig = z.infer<typeof transformConfigSchema>;
+/** Name of a transform op. */
 export type TransformOp = TransformConfig['op'];
+/** Config of a formula cell. */
 export type FormulaConfig = z.infer<typeof formulaConfigSchema>;
+/** Name of a chart preset. */
 export type ChartPreset = z.infer<typeof chartPresetSchema>;
+/** Config of a chart cell. */
 export type ChartConfig = z.infer<typeof chartConfigSchema>;
+/** Config of a note cell. */
 export type NoteConfig = z.infer<typeof noteConfigSchema>;
+/** A hand-set gear state over a time range. */
 export type GearOverride = z.infer<typeof gearOverrideSchema>;
+/** A time range in seconds with an optional label. */
 export type TimeRange = z.infer<typeof timeRangeSchema>;
 
 /**

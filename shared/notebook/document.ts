@@ -37,6 +37,7 @@ export const slotSchema = z.object({
   csvMapping: z.record(z.string(), z.unknown()).optional(),
 });
 
+/** The kinds of cell. */
 export const cellKindSchema = z.enum(['import', 'transform', 'formula', 'chart', 'note']);
 
 const cellBase = {
@@ -84,12 +85,17 @@ export const notebookDocumentSchema = z
     });
   });
 
+/** A notebook parameter. */
 export type NotebookParameter = z.infer<typeof parameterSchema>;
+/** An input slot. */
 export type NotebookSlot = z.infer<typeof slotSchema>;
+/** A kind of cell. */
 export type CellKind = z.infer<typeof cellKindSchema>;
+/** One cell, typed by kind. */
 export type NotebookCell = z.infer<typeof cellSchema>;
 /** A cell of one kind, e.g. `CellOf<'formula'>`. */
 export type CellOf<K extends CellKind> = Extract<NotebookCell, { kind: K }>;
+/** A notebook document in the current format. */
 export type NotebookDocument = z.infer<typeof notebookDocumentSchema>;
 
 /** A new, empty notebook document. */

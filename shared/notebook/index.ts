@@ -32,4 +32,5 @@ export {
 export { hashRecording, hashText } from './hash.js';
 export { migrateNotebookDocument } from './migrate-document.js';
 export { buildChart } from './run-chart.js';
-export { runNotebook, type RunCache, type RunNotebookOptions, type RunNotebookResult } from './run-notebook.js';
+export { cellKeys } from './cell-keys.js';
+export { runNotebook, staleCells, type RunCache, type RunNotebookOptions, type RunNotebookResult } from './run-notebook.js';

@@ -7,7 +7,7 @@ import { buildGraph, type GraphCell, type NotebookGraph } from './build-graph.js
 import { resultOf, type CellOutput } from './cell-output.js';
 import { formulaView, type CellValue } from './cell-value.js';
 import type { NotebookDocument } from './document.js';
-import { hashRecording, hashText } from './hash.js';
+import { cellKeys } from './cell-keys.js';
 import { buildChart } from './run-chart.js';
 import { runTransform } from './transforms/run-transform.js';
 
@@ -71,12 +71,11 @@ export function runNotebook(
   const now = options.now ?? Date.now;
   const graph = buildGraph(document, engine);
   const params = new Map(document.parameters.map((p) => [p.name, p.value]));
+  const keys = cellKeys(graph, document, inputs);
   const outputs: Record<string, CellOutput> = {};
   const values = new Map<string, CellValue>();
-  const keys = new Map<string, string>();
   const cache: RunCache = { entries: {} };
   const computed: string[] = [];
-  const recordingKeys = new Map<Recording, string>();
 
   for (const id of graph.order) {
     const g = graph.cells[id]!;
@@ -100,20 +99,8 @@ export function runNotebook(
         outputs[id] = { ...base, state: 'blocked', blockedBy: { name: cell.config.slot, reason: 'empty_slot' } };
         continue;
       }
-      if (!recordingKeys.has(recording)) recordingKeys.set(recording, hashRecording(recording));
     }
-    const key = hashText(
-      JSON.stringify([
-        cell.kind,
-        cell.name,
-        cell.config,
-        g.parameters.map((p) => [p, params.get(p)]),
-        g.dependsOn.map((d) => keys.get(d)),
-        recording ? recordingKeys.get(recording) : null,
-        cell.kind === 'chart' ? document.slots.map((s) => [s.name, s.label]) : null,
-      ]),
-    );
-    keys.set(id, key);
+    const key = keys.get(id)!;
     const hit = previous?.entries[id];
     if (hit !== undefined && hit.key === key) {
       values.set(id, hit.value);
@@ -138,6 +125,23 @@ export function runNotebook(
     }
   }
   return { outputs, order: graph.order, cache, computed };
+}
+
+/**
+ * The cells a run would compute rather than reuse from `previous`: the ones to show as
+ * `stale` after an edit, before the run. Parses formulas but computes nothing.
+ *
+ * @example staleCells(editedDoc, inputs, lastRun.cache, { engine }) // ['b', 'c']
+ */
+export function staleCells(
+  document: NotebookDocument,
+  inputs: Record<string, Recording>,
+  previous: RunCache | undefined,
+  options: Pick<RunNotebookOptions, 'engine'> = {},
+): string[] {
+  const graph = buildGraph(document, options.engine ?? createFormulaEngine());
+  const keys = cellKeys(graph, document, inputs);
+  return graph.order.filter((id) => previous?.entries[id]?.key !== keys.get(id));
 }
 
 /** What a formula or chart binding sees: the names it reads, resolved to values. */

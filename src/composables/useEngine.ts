@@ -121,6 +121,7 @@ export function createEngineClient(options: EngineClientOptions = {}) {
     compare: (...args: Parameters<EngineApi['compare']>) => api.compare(...args),
     readCellTable: (cellId: string, from: number, count: number) => api.readCellTable(cellId, from, count),
     readCellSeries: (cellId: string, column: string, maxPoints: number) => api.readCellSeries(cellId, column, maxPoints),
+    staleCells: (document: NotebookDocument) => api.staleCells(document),
     clearCache: () => api.clearCache(),
     /** Ends the worker for good (page teardown, tests). */
     dispose: () => worker.terminate(),

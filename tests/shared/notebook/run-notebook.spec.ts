@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { createFormulaEngine } from '../../../shared/formula/index.js';
-import { runNotebook } from '../../../shared/notebook/index.js';
+import { runNotebook, staleCells } from '../../../shared/notebook/index.js';
 import { formula, notebook, recording } from './notebook-builders.js';
 
 const engine = createFormulaEngine();
@@ -22,6 +22,15 @@ describe('runNotebook', () => {
     expect(second.outputs['a']!.cached).toBe(true);
     expect(second.outputs['d']!.cached).toBe(true);
     expect(second.outputs['c']!.result).toMatchObject({ values: { z: 9 } });
+  });
+
+  it('lists as stale exactly the cells the next run computes', () => {
+    const first = runNotebook(notebook(cells), {}, undefined, { engine });
+    const edited = notebook([formula('a', 'x = 2'), formula('b', 'y = x * 4'), cells[2]!, cells[3]!]);
+    const stale = staleCells(edited, {}, first.cache, { engine });
+    expect(stale).toEqual(['b', 'c']);
+    expect(runNotebook(edited, {}, first.cache, { engine }).computed).toEqual(stale);
+    expect(staleCells(edited, {}, undefined, { engine })).toEqual(['a', 'b', 'c', 'd']);
   });
 
   it('reuses everything when nothing changed', () => {
