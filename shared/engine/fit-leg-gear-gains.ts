@@ -40,8 +40,8 @@ export interface FitLegGearGainsOptions {
 const COLUMNS = { total: ['test_power', 'ref_power'], left: ['test_left', 'ref_left'], right: ['test_right', 'ref_right'] } as const;
 
 /**
- * Gain of the device per leg (left and right when both devices report them, and the
- * total) per front chainring, and over all gear states, each with a circular
+ * Gain of the device per leg (left and right when both devices report them, else the
+ * total) per front chainring, and over all gear states (also for the total), each with a circular
  * block-bootstrap 95% interval (the ratio of means: robust when power sits at a few
  * steady levels, and what testers quote as "reads x% high"). O(cells * n * replicates).
  *
@@ -57,12 +57,15 @@ export function fitLegGearGains(table: Table, options: FitLegGearGainsOptions = 
   const gears = distinctFinite(front).sort((a, b) => b - a);
   const totalPairs = countPairs(c.test_power!, c.ref_power!, mask);
   const cells: GainCell[] = [];
+  const hasLegs = c.test_left !== undefined && c.ref_left !== undefined && c.test_right !== undefined && c.ref_right !== undefined;
   for (const leg of ['total', 'left', 'right'] as const) {
     const [testName, refName] = COLUMNS[leg];
     const test = c[testName];
     const ref = c[refName];
     if (test === undefined || ref === undefined) continue;
-    for (const teeth of [null, ...gears]) {
+    // With both legs known, the total per chainring adds nothing the legs do not say,
+    // and each bootstrap costs O(n * replicates).
+    for (const teeth of leg === 'total' && hasLegs ? [null] : [null, ...gears]) {
       const cellMask = new Uint8Array(n);
       for (let i = 0; i < n; i++) {
         cellMask[i] = (mask === undefined || mask[i] !== 0) && (teeth === null || front![i] === teeth) ? 1 : 0;
