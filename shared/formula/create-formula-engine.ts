@@ -12,7 +12,7 @@ export const MAX_ELEMENTS = 5_000_000;
 const DISABLED_FUNCTIONS = [
   'import', 'createUnit', 'evaluate', 'parse', 'compile', 'simplify', 'simplifyConstant', 'simplifyCore',
   'derivative', 'resolve', 'rationalize', 'symbolicEqual', 'leafCount', 'parser', 'Parser', 'chain',
-  'reviver', 'replacer', 'help',
+  'reviver', 'replacer', 'help', 'print',
 ];
 
 /**
@@ -67,7 +67,7 @@ function capped(name: string, fn: (...a: unknown[]) => unknown, count: (args: un
  * Builds the mathjs instance formulas run in. Following mathjs's security guidance,
  * everything that changes the instance or parses text into code is replaced by a
  * function that throws, after Cogbook's own units (rpm) and library functions are
- * added. Sizes of generated arrays are capped so a formula cannot exhaust memory.
+ * added (`print` too: its templates walk object fields by name). Sizes of generated arrays are capped so a formula cannot exhaust memory.
  * Property access is checked again on the parsed tree (see check-formula.ts).
  *
  * Creating one costs tens of milliseconds: a host keeps one and passes it to the runner.

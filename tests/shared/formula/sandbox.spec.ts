@@ -41,6 +41,13 @@ const ATTEMPTS = [
   'help(cos)',
   'reviver',
   'x = SymbolNode',
+  'print("$constructor", {})',
+  'Unit.BASE_UNITS',
+  'Unit.isValuelessUnit("W")',
+  'x = Unit.prototype',
+  'a = {b: cos}; a.b.constructor',
+  'f(x) = x; g = f; g.call',
+  '(cos)(1)(2)',
 ];
 
 describe('formula sandbox', () => {
