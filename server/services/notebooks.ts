@@ -104,7 +104,7 @@ async function append(db: Db, userId: string, notebookId: string, base: number, 
     throw new AppError(
       409,
       'stale_revision',
-      `This notebook was saved by someone else meanwhile (now at revision ${result.currentRevision}, you edited revision ${base}). Reload it and apply your changes again.`,
+      `This notebook was saved elsewhere meanwhile (it is now at revision ${result.currentRevision}; your changes were made on revision ${base}). Nothing was overwritten: reload it and apply your changes again.`,
       { currentRevision: result.currentRevision, baseRevision: base },
     );
   }
