@@ -62,15 +62,26 @@ export function diagnose(table: Table, options: DiagnoseOptions = {}): Diagnosis
   const c = table.columns;
   const ref = c.ref_power!;
   const n = ref.length;
-  const gains = fitLegGearGains(table, {
+  const pedalling = new Uint8Array(n);
+  for (let i = 0; i < n; i++) pedalling[i] = ref[i]! >= minPowerW ? 1 : 0;
+  const zeroOffset = detectZeroOffset(table, pedalling);
+  const fit = fitDrift(table, pedalling);
+  const hours = n > 1 ? (table.timeS[n - 1]! - table.timeS[0]!) / 3600 : 0;
+  const meanRef = meanOf(ref, pedalling);
+  const overRideW = fit.wPerHour * hours;
+  const drift = {
+    detected: Math.abs(fit.wPerHour) >= 4 * fit.seWPerHour && Math.abs(overRideW) >= Math.max(4, 0.015 * meanRef),
+    wPerHour: fit.wPerHour,
+    seWPerHour: fit.seWPerHour,
+    overRideW,
+  };
+  // A drift read as a gain would be blamed on a leg or chainring: fit gains with it removed.
+  const basis = drift.detected ? withoutDrift(table, fit.wPerHour, pedalling) : table;
+  const gains = fitLegGearGains(basis, {
     seed: options.seed ?? 1,
     replicates: options.replicates ?? 1000,
     ...(options.blockLength !== undefined && { blockLength: options.blockLength }),
   });
-  const pedalling = new Uint8Array(n);
-  for (let i = 0; i < n; i++) pedalling[i] = ref[i]! >= minPowerW ? 1 : 0;
-
-  const zeroOffset = detectZeroOffset(table, pedalling);
   const findings: string[] = [];
   const hasLegs = gains.some((g) => g.leg === 'left');
   const legs = hasLegs ? (['left', 'right'] as const) : (['total'] as const);
@@ -97,18 +108,8 @@ export function diagnose(table: Table, options: DiagnoseOptions = {}): Diagnosis
     withinLegs.push({ leg, maxAbsPct: Math.max(0, ...cells.map((g) => Math.abs(g.diffPct)).filter(Number.isFinite)) });
   }
 
-  const corrected = removeGains(table, explained, gains);
+  const corrected = removeGains(basis, explained, gains);
   const residualTotalPct = ratioPct(corrected, ref);
-  const fit = fitDrift(table, pedalling);
-  const hours = n > 1 ? (table.timeS[n - 1]! - table.timeS[0]!) / 3600 : 0;
-  const meanRef = meanOf(ref, pedalling);
-  const overRideW = fit.wPerHour * hours;
-  const drift = {
-    detected: Math.abs(fit.wPerHour) >= 4 * fit.seWPerHour && Math.abs(overRideW) >= Math.max(4, 0.015 * meanRef),
-    wPerHour: fit.wPerHour,
-    seWPerHour: fit.seWPerHour,
-    overRideW,
-  };
   const singleSided = detectSingleSided(table, minPowerW);
 
   if (explained.length > 0) findings.push(explainInWords(explained, withinLegs, residualTotalPct));
@@ -119,7 +120,7 @@ export function diagnose(table: Table, options: DiagnoseOptions = {}): Diagnosis
   }
   if (drift.detected) {
     findings.push(
-      `The difference drifts by ${signed(fit.wPerHour, 1)} W per hour (${signed(overRideW, 1)} W over the ride): a temperature drift or a zero offset that moves.`,
+      `The difference drifts by ${signed(fit.wPerHour, 1)} W per hour (${signed(overRideW, 1)} W over the ride): a temperature drift or a zero offset that moves. Gains are stated with the drift removed.`,
     );
   }
   if (singleSided.detected) {
@@ -157,6 +158,18 @@ function fitDrift(table: Table, pedalling: Uint8Array): { wPerHour: number; seWP
   const fit = fitLinearModel(regressors, c.test_power!, pedalling);
   const k = regressors.length - 1;
   return { wPerHour: fit.coefficients[k]!, seWPerHour: fit.standardErrors[k]! };
+}
+
+/** A copy of the table with a drift taken out of the test total and, half each, out of its legs, while pedalling. */
+function withoutDrift(table: Table, wPerHour: number, pedalling: Uint8Array): Table {
+  const c = table.columns;
+  const t0 = table.timeS.length > 0 ? table.timeS[0]! : 0;
+  const take = (column: Float64Array | undefined, share: number): Float64Array | undefined =>
+    column?.map((v, i) => (pedalling[i] ? v - (share * wPerHour * (table.timeS[i]! - t0)) / 3600 : v));
+  const columns: Record<string, Float64Array> = { ...c, test_power: take(c.test_power, 1)! };
+  if (c.test_left !== undefined) columns.test_left = take(c.test_left, 0.5)!;
+  if (c.test_right !== undefined) columns.test_right = take(c.test_right, 0.5)!;
+  return { ...table, columns };
 }
 
 /**

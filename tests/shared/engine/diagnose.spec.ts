@@ -55,6 +55,8 @@ describe('diagnose', () => {
     expect(d.drift.detected).toBe(true);
     expect(Math.abs(d.drift.wPerHour - 24)).toBeLessThan(2);
     expect(d.findings.join(' ')).toMatch(/drifts by \+2\d\.\d W per hour/);
+    // With the drift taken out, no leg or chainring is blamed for it.
+    expect(d.explained).toEqual([]);
   });
 
   it('recognises a single-sided meter that doubles the left leg', () => {
