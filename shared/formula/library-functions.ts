@@ -4,6 +4,7 @@ import { blandAltman } from '../engine/stats/bland-altman.js';
 import { driftFit } from '../engine/stats/drift-fit.js';
 import { olsFit } from '../engine/stats/ols-fit.js';
 import { pairedIndices } from '../engine/stats/paired.js';
+import { percentDifference, withinTolerance } from '../engine/stats/percent-difference.js';
 import { summary } from '../engine/stats/summary.js';
 
 type Fn = (...args: unknown[]) => unknown;
@@ -109,7 +110,7 @@ export function libraryFunctions(): Record<string, Fn> {
     pctdiff: (t, r, m) => {
       const test = column(t, 'pctdiff', 'test');
       const { t: mt, r: mr } = pairedMeans(test, column(r, 'pctdiff', 'ref'), mask(m, test.length, 'pctdiff'));
-      return (100 * (mt - mr)) / mr;
+      return percentDifference(mt, mr);
     },
     ratio: (t, r, m) => {
       const test = column(t, 'ratio', 'test');
@@ -135,7 +136,7 @@ export function libraryFunctions(): Record<string, Fn> {
       const v = selected(column(pct, 'withintol', 'pct'));
       if (typeof tol !== 'number') throw new EngineError('formula_argument', 'withintol: tol must be a number (percent)');
       let k = 0;
-      for (const x of v) if (Math.abs(x) <= tol) k++;
+      for (const x of v) if (withinTolerance(x, tol)) k++;
       return v.length === 0 ? NaN : (100 * k) / v.length;
     },
     persegment: (x, seg, stat) => {
