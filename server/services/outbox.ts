@@ -13,8 +13,7 @@ export async function listOutbox(db: Db, userId: string): Promise<MailSummary[]>
 /** One message, if it is addressed to someone the caller administers. */
 export async function getOutboxMessage(db: Db, userId: string, id: string): Promise<MailMessage> {
   await assertAdmin(db, userId);
-  const visible = (await mail.listMailForAdmin(db, userId, 10_000)).some((m) => m.id === id);
-  const m = visible ? await mail.findMail(db, id) : undefined;
+  const m = await mail.findMailForAdmin(db, userId, id);
   if (!m) throw notFound('Message');
   return { id: m.id, to: m.to, from: m.from, subject: m.subject, text: m.text, html: m.html, createdAt: m.createdAt.toISOString() };
 }

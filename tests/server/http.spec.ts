@@ -41,6 +41,12 @@ describe('error shape and headers', () => {
     }
   });
 
+  it('refuses a state-changing call from another site', async () => {
+    const res = await agent.post('/api/notebooks').set('Origin', 'http://evil.example').send({}).expect(403);
+    expect(res.body.error.code).toBe('forbidden_origin');
+    await agent.post('/api/notebooks').set('Origin', 'http://localhost:3000').send({}).expect(400);
+  });
+
   it('tags every response with a request id', async () => {
     const res = await supertest(t.app).get('/api/health').expect(200);
     expect(res.headers['x-request-id']).toMatch(/^[\w-]{8,}$/);

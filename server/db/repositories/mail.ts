@@ -1,4 +1,4 @@
-import { desc, eq, inArray, sql } from 'drizzle-orm';
+import { and, desc, eq, inArray, sql } from 'drizzle-orm';
 import type { Db } from '../client.js';
 import { mailMessage, user, workspaceMember } from '../schema.js';
 
@@ -22,24 +22,32 @@ export async function insertMail(db: Db, mail: Omit<MailRecord, 'id' | 'createdA
  * included), newest first. Addresses are compared lower-cased.
  */
 export async function listMailForAdmin(db: Db, adminUserId: string, limit = 200): Promise<MailRecord[]> {
-  const adminOf = db
-    .select({ workspaceId: workspaceMember.workspaceId })
-    .from(workspaceMember)
-    .where(sql`${workspaceMember.userId} = ${adminUserId} and ${workspaceMember.role} = 'admin'`);
-  const emails = db
-    .select({ email: user.email })
-    .from(user)
-    .innerJoin(workspaceMember, eq(workspaceMember.userId, user.id))
-    .where(inArray(workspaceMember.workspaceId, adminOf));
   return db
     .select()
     .from(mailMessage)
-    .where(inArray(sql`lower(${mailMessage.to})`, emails))
+    .where(inArray(sql`lower(${mailMessage.to})`, administeredEmails(db, adminUserId)))
     .orderBy(desc(mailMessage.createdAt))
     .limit(limit);
 }
 
-export async function findMail(db: Db, id: string): Promise<MailRecord | undefined> {
-  const rows = await db.select().from(mailMessage).where(eq(mailMessage.id, id));
+/** One message, only if it is addressed to someone `adminUserId` administers. */
+export async function findMailForAdmin(db: Db, adminUserId: string, id: string): Promise<MailRecord | undefined> {
+  const rows = await db
+    .select()
+    .from(mailMessage)
+    .where(and(eq(mailMessage.id, id), inArray(sql`lower(${mailMessage.to})`, administeredEmails(db, adminUserId))));
   return rows[0];
+}
+
+/** E-mails of every member of the workspaces the user administers (a subquery). */
+function administeredEmails(db: Db, adminUserId: string) {
+  const adminOf = db
+    .select({ workspaceId: workspaceMember.workspaceId })
+    .from(workspaceMember)
+    .where(sql`${workspaceMember.userId} = ${adminUserId} and ${workspaceMember.role} = 'admin'`);
+  return db
+    .select({ email: user.email })
+    .from(user)
+    .innerJoin(workspaceMember, eq(workspaceMember.userId, user.id))
+    .where(inArray(workspaceMember.workspaceId, adminOf));
 }
