@@ -1,3 +1,5 @@
+import { parseDecimal } from './parse-decimal.js';
+
 /** How a CSV time cell is written. */
 export type CsvTimeFormat = 'seconds' | 'clock' | 'iso';
 
@@ -25,9 +27,9 @@ export function isoLacksZone(cell: string): boolean {
  * ms since the Unix epoch for 'iso' (no zone = UTC). NaN when unreadable.
  */
 export function parseTimeCell(cell: string, format: CsvTimeFormat): number {
+  if (format === 'seconds') return parseDecimal(cell);
   const c = cell.trim();
   if (c === '') return NaN;
-  if (format === 'seconds') return Number(c);
   if (format === 'clock') {
     const m = CLOCK.exec(c);
     if (!m) return NaN;

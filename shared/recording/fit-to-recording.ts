@@ -1,5 +1,5 @@
 import { EngineError, type EngineWarning } from '../errors.js';
-import { fitDeviceIdentity, type FitRawMessage } from './fit-device.js';
+import { fitDeviceIdentity } from './fit-device.js';
 import { fitEvents, gearColumns, pausedSeconds, timestampMs, type FitParsedMessage } from './fit-events.js';
 import type { BalanceSide, ColumnName, Recording, RecordingColumns } from './recording.js';
 import { sampleInterval } from './sample-interval.js';
@@ -13,10 +13,10 @@ export interface ParsedFitLike {
   file_ids?: FitParsedMessage[];
   device_infos?: FitParsedMessage[];
   file_creator?: FitParsedMessage;
-  raw_messages?: FitRawMessage[];
 }
 
-// Record fields copied as they are (fit-file-parser already applies scale: speed in m/s, percents).
+// Record fields copied as they are (fit-file-parser already applies scale: speed in m/s, percents),
+// in the order the hot loop reads them.
 const PLAIN_FIELDS: readonly (readonly [string, ColumnName])[] = [
   ['power', 'power'],
   ['cadence', 'cadence'],
@@ -34,7 +34,13 @@ const PLAIN_FIELDS: readonly (readonly [string, ColumnName])[] = [
  * fields fill the gaps of the first), one that goes backwards is dropped; both with a warning
  * naming the first record. Missing fields are NaN, never 0.
  */
-export function fitToRecording(parsed: ParsedFitLike, fileName: string, warnings: EngineWarning[], recordBytes: (k: number) => number | undefined): Recording {
+export function fitToRecording(
+  parsed: ParsedFitLike,
+  fileName: string,
+  warnings: EngineWarning[],
+  recordBytes: (k: number) => number | undefined,
+  fileIdNumbers?: { manufacturerId?: number; productId?: number },
+): Recording {
   const records = parsed.records ?? [];
   const n = records.length;
   const time = new Float64Array(n);
@@ -81,14 +87,16 @@ export function fitToRecording(parsed: ParsedFitLike, fileName: string, warnings
       time[m++] = (ms - t0) / 1000;
       last = ms;
     }
-    for (let f = 0; f < PLAIN_FIELDS.length; f++) {
-      const v = rec[PLAIN_FIELDS[f]![0]];
-      if (typeof v === 'number' && Number.isNaN(cols[f]![k]!)) {
-        cols[f]![k] = v;
-        seen[f] = true;
-      }
-    }
-    if (Number.isNaN(cols[2]![k]!) && typeof rec.enhanced_speed === 'number') ((cols[2]![k] = rec.enhanced_speed), (seen[2] = true));
+    // Named reads (not a loop over field names) keep the property loads monomorphic in this hot loop.
+    const speed = rec.speed ?? rec.enhanced_speed;
+    if (take(cols[0]!, k, rec.power)) seen[0] = true;
+    if (take(cols[1]!, k, rec.cadence)) seen[1] = true;
+    if (take(cols[2]!, k, speed)) seen[2] = true;
+    if (take(cols[3]!, k, rec.heart_rate)) seen[3] = true;
+    if (take(cols[4]!, k, rec.left_torque_effectiveness)) seen[4] = true;
+    if (take(cols[5]!, k, rec.right_torque_effectiveness)) seen[5] = true;
+    if (take(cols[6]!, k, rec.left_pedal_smoothness)) seen[6] = true;
+    if (take(cols[7]!, k, rec.right_pedal_smoothness)) seen[7] = true;
     const lrb = rec.left_right_balance as { value?: unknown; right?: unknown } | number | undefined;
     if (lrb !== undefined && Number.isNaN(balance[k]!)) {
       const value = typeof lrb === 'number' ? lrb & 0x7f : Number(lrb.value);
@@ -123,7 +131,7 @@ export function fitToRecording(parsed: ParsedFitLike, fileName: string, warnings
     meta: {
       fileName,
       format: 'fit',
-      device: fitDeviceIdentity(parsed.file_ids ?? [], parsed.device_infos ?? [], parsed.raw_messages ?? [], parsed.file_creator),
+      device: fitDeviceIdentity(parsed.file_ids ?? [], parsed.device_infos ?? [], fileIdNumbers, parsed.file_creator),
       startMs: t0,
       sampleIntervalS: sampleInterval(axis),
       totalS: m > 0 ? axis[m - 1]! : 0,
@@ -136,6 +144,13 @@ export function fitToRecording(parsed: ParsedFitLike, fileName: string, warnings
     events,
     warnings,
   };
+}
+
+/** Stores a numeric field unless the sample already has a value (a merged repeat fills gaps only). */
+function take(col: Float64Array, k: number, v: unknown): boolean {
+  if (typeof v !== 'number' || col[k] === col[k]) return false;
+  col[k] = v;
+  return true;
 }
 
 function settleBalance(balance: Float64Array, m: number, rightCount: number, unknownCount: number, fileName: string, warnings: EngineWarning[]): BalanceSide {

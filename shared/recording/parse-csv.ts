@@ -3,12 +3,17 @@ import { EngineError, type EngineWarning } from '../errors.js';
 import { checkUsable } from './check-usable.js';
 import { csvMappingSchema, FIELD_UNITS, unitFactor, type CsvMapping } from './csv-mapping.js';
 import { isoLacksZone, parseTimeCell } from './csv-time.js';
+import { parseDecimal } from './parse-decimal.js';
 import { importFailure } from './import-failure.js';
 import type { ImportOptions, ImportResult } from './import-result.js';
 import { describeRows } from './inspect-csv.js';
 import type { BalanceSide, Recording, RecordingColumns } from './recording.js';
 import { sampleInterval } from './sample-interval.js';
 import { splitPower } from './split-power.js';
+
+const PREVIEW_ROWS = 200;
+const PREVIEW_CHARS = 64 * 1024;
+const CHUNK_CHARS = 1 << 20;
 
 /**
  * Reads CSV text into a {@link Recording} with papaparse. Without `mapping`, the delimiter, header
@@ -29,18 +34,23 @@ export function parseCsv(text: string, fileName: string, mapping?: CsvMapping, o
 
 function readCsv(text: string, fileName: string, given: CsvMapping | undefined, options: ImportOptions): Recording {
   const file = fileName;
-  if (text.trim() === '') throw new EngineError('empty_file', `${file} is empty: there is no text to read.`, { file });
+  if (!/\S/.test(text)) throw new EngineError('empty_file', `${file} is empty: there is no text to read.`, { file });
   const checked = given === undefined ? undefined : csvMappingSchema.safeParse(given);
   if (checked && !checked.success) {
     const issue = checked.error.issues[0];
     throw new EngineError('csv_mapping_invalid', `${file}: the column mapping is not valid (${issue?.path.join('.') || 'mapping'}: ${issue?.message}).`, { file, field: issue?.path.join('.') });
   }
-  const parsed = Papa.parse<string[]>(text, { delimiter: checked?.data.delimiter ?? '', skipEmptyLines: false });
-  const rows = parsed.data;
-  const delimiter = parsed.meta.delimiter;
-  const inspection = describeRows(rows.filter((r) => !isBlank(r)).slice(0, 60), delimiter === ';' || delimiter === '\t' || delimiter === '|' ? delimiter : ',', file, checked?.data.hasHeader);
+  // A preview decides delimiter, header and mapping; the full pass then reads chunks whose rows die
+  // young instead of living as one big array (that alone doubled the cost through GC).
+  // Only the head goes to the preview: papaparse's detection otherwise touches the whole text.
+  const head = headOf(text, PREVIEW_CHARS);
+  const preview = Papa.parse<string[]>(head, { delimiter: checked?.data.delimiter ?? '', skipEmptyLines: false, preview: PREVIEW_ROWS });
+  const rows = preview.data;
+  const moreRows = preview.meta.truncated || head.length < text.length;
+  const delimiter = preview.meta.delimiter;
+  const inspection = describeRows(firstRows(rows, 60), delimiter === ';' || delimiter === '\t' || delimiter === '|' ? delimiter : ',', file, checked?.data.hasHeader);
   const firstData = firstDataRow(rows, inspection.hasHeader);
-  if (firstData >= rows.length) {
+  if (firstData >= rows.length && !moreRows) {
     const headerRow = rows.findIndex((r) => !isBlank(r)) + 1;
     throw new EngineError('header_only', `${file} has a header row (row ${headerRow}) but no data rows after it (row ${headerRow + 1} is missing).`, { file, row: headerRow + 1 });
   }
@@ -66,56 +76,83 @@ function readCsv(text: string, fileName: string, given: CsvMapping | undefined, 
   for (const c of mapping.columns) {
     if (!FIELD_UNITS[c.field].includes(c.unit)) throw new EngineError('mixed_units', `${file}: column "${c.column}" is mapped to ${c.field} in ${c.unit}, which is not a unit of ${c.field} (${FIELD_UNITS[c.field].join(', ')}).`, { file, field: c.column });
   }
-  const mapped = mapping.columns.map((c) => ({ ...c, at: indexOf(c.column, c.field), factor: unitFactor(c.unit), out: new Float64Array(rows.length).fill(NaN) }));
+  let capacity = countLines(text);
+  const mapped = mapping.columns;
+  // Plain parallel arrays for the hot loop below.
+  const width = mapped.length;
+  const ats = Int32Array.from(mapped, (c) => indexOf(c.column, c.field));
+  const factors = Float64Array.from(mapped, (c) => unitFactor(c.unit));
+  const outs = mapped.map(() => new Float64Array(capacity).fill(NaN));
+  let time = new Float64Array(capacity);
   const decimalComma = delimiter === ';';
-  const time = new Float64Array(rows.length);
   const issues = { badTime: [] as number[], repeated: [] as number[], backwards: [] as number[], badCells: 0, firstBad: undefined as undefined | { row: number; column: string } };
   let first = NaN;
   let last = -Infinity;
   let m = 0;
-  for (let r = firstData; r < rows.length; r++) {
-    const row = rows[r]!;
-    if (isBlank(row)) continue;
+  let r = -1;
+  const consume = (row: string[]): void => {
+    r++;
+    if (r < firstData || isBlank(row)) return;
     const timeCell = row[timeAt] ?? '';
     const raw = parseTimeCell(decimalComma ? timeCell.replace(',', '.') : timeCell, mapping.time.format);
     if (Number.isNaN(raw)) {
       issues.badTime.push(r + 1);
-      continue;
+      return;
     }
     let k = m;
     if (raw === last) ((k = m - 1), issues.repeated.push(r + 1));
     else if (raw < last) {
       issues.backwards.push(r + 1);
-      continue;
+      return;
     } else {
+      if (m === capacity) {
+        capacity *= 2;
+        time = grow(time, capacity, 0);
+        for (let j = 0; j < outs.length; j++) outs[j] = grow(outs[j]!, capacity, NaN);
+      }
       if (Number.isNaN(first)) first = raw;
       time[m++] = mapping.time.format === 'iso' ? (raw - first) / 1000 : raw - first;
       last = raw;
     }
-    for (const c of mapped) {
-      if (!Number.isNaN(c.out[k]!)) continue;
-      const cell = row[c.at] ?? '';
-      if (cell === '') continue;
-      const v = Number(decimalComma ? cell.replace(',', '.') : cell);
-      if (Number.isNaN(v) || cell.trim() === '') {
-        if (cell.trim() !== '' && issues.badCells++ === 0) issues.firstBad = { row: r + 1, column: c.column };
+    for (let j = 0; j < width; j++) {
+      const out = outs[j]!;
+      if (out[k] === out[k]) continue; // already set (a merged repeat fills gaps only)
+      const cell = row[ats[j]!];
+      if (cell === undefined || cell === '') continue;
+      let v = parseDecimal(cell);
+      if (v !== v && decimalComma) v = parseDecimal(cell.replace(',', '.'));
+      if (v !== v) {
+        if (cell.trim() !== '' && issues.badCells++ === 0) issues.firstBad = { row: r + 1, column: mapped[j]!.column };
         continue;
       }
-      c.out[k] = v * c.factor;
+      const factor = factors[j]!;
+      out[k] = factor === 1 ? v : v * factor;
     }
-  }
+  };
+  // Chunks, not `step`: papaparse's per-row callback costs twice the parse itself. Its types list
+  // `chunk` for files only, but a string input is chunked the same way, synchronously.
+  const streaming: Papa.ParseConfig<string[]> & { chunkSize: number; chunk: (result: Papa.ParseResult<string[]>) => void } = {
+    delimiter,
+    skipEmptyLines: false,
+    chunkSize: CHUNK_CHARS,
+    chunk: (result) => {
+      const chunkRows = result.data;
+      for (let i = 0; i < chunkRows.length; i++) consume(chunkRows[i]!);
+    },
+  };
+  Papa.parse<string[]>(text, streaming);
   reportRowIssues(issues, file, warnings);
   if (mapping.time.format === 'iso' && isoLacksZone(rows[firstData]?.[timeAt] ?? '')) {
     warnings.push({ code: 'csv_time_zone_assumed', message: `${file}: the times in column "${mapping.time.column}" carry no time zone; read as UTC.`, where: { file, field: mapping.time.column } });
   }
   const columns: RecordingColumns = {};
   let side: BalanceSide = 'none';
-  for (const c of mapped) {
-    columns[c.field] = m < rows.length ? c.out.slice(0, m) : c.out;
+  for (const [j, c] of mapped.entries()) {
+    columns[c.field] = trim(outs[j]!, m);
     if (c.field === 'balance') side = c.unit === '% left' ? 'left' : c.unit === '% right' ? 'right' : 'unknown';
   }
   completeLegs(columns, side, m);
-  const axis = time.slice(0, m);
+  const axis = trim(time, m);
   let dropouts = 0;
   if (columns.power) for (let i = 0; i < m; i++) if (Number.isNaN(columns.power[i]!)) dropouts++;
   const startMs = mapping.time.format === 'iso' ? first : (mapping.startMs ?? NaN);
@@ -142,6 +179,37 @@ function completeLegs(columns: RecordingColumns, side: BalanceSide, m: number): 
     const right = new Float64Array(m);
     if (splitPower(power, balance, side, left, right)) Object.assign(columns, { leftPower: left, rightPower: right });
   }
+}
+
+/** The text up to the last line break within `max` characters (all of it when shorter). */
+function headOf(text: string, max: number): string {
+  if (text.length <= max) return text;
+  const cut = text.lastIndexOf('\n', max);
+  return cut > 0 ? text.slice(0, cut + 1) : text.slice(0, max);
+}
+
+/** Upper bound of the row count, so the columns are allocated once. */
+function countLines(text: string): number {
+  let lines = 1;
+  for (let i = text.indexOf('\n'); i >= 0; i = text.indexOf('\n', i + 1)) lines++;
+  return lines;
+}
+
+/** The first `m` values: a view when little would be wasted, else a compact copy. */
+function trim(values: Float64Array, m: number): Float64Array {
+  return m >= values.length * 0.9 ? values.subarray(0, m) : values.slice(0, m);
+}
+
+function grow(values: Float64Array, capacity: number, fill: number): Float64Array<ArrayBuffer> {
+  const out = new Float64Array(capacity).fill(fill);
+  out.set(values);
+  return out;
+}
+
+function firstRows(rows: string[][], count: number): string[][] {
+  const out: string[][] = [];
+  for (let r = 0; r < rows.length && out.length < count; r++) if (!isBlank(rows[r]!)) out.push(rows[r]!);
+  return out;
 }
 
 function isBlank(row: string[]): boolean {

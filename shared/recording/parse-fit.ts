@@ -62,14 +62,14 @@ export async function readFit(bytes: Uint8Array, fileName: string, options: Impo
     recordStarts ??= frames.dataStarts.filter((_, i) => frames.dataGlobals[i] === RECORD);
     return recordStarts[k];
   };
-  const recording = fitToRecording(parsed, fileName, warnings, recordBytes);
+  const recording = fitToRecording(parsed, fileName, warnings, recordBytes, frames.fileId);
   if (options.label) recording.meta.device.label = options.label;
   checkUsable(recording, options);
   return recording;
 }
 
 async function runParser(bytes: Uint8Array): Promise<ParsedFitLike> {
-  const parser = new FitParser({ mode: 'list', includeRawMessages: [0, 23] });
+  const parser = new FitParser({ mode: 'list' });
   // fit-file-parser accepts any Uint8Array view (it reads buffer/byteOffset/byteLength), not just Node's Buffer.
   return (await parser.parseAsync(bytes as unknown as ArrayBuffer)) as unknown as ParsedFitLike;
 }

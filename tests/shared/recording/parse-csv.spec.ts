@@ -88,6 +88,20 @@ describe('parseCsv units, time formats and delimiters', () => {
   });
 });
 
+describe('parseCsv on a file larger than one parsing chunk', () => {
+  it('keeps every row across chunk boundaries', () => {
+    const n = 120_000; // ~1.5 MB, over the 1 MB chunk
+    const rec = read(`time (s),power (W),cadence (rpm)\n${rows(n, (i) => `${i / 10},${200 + (i % 97)},${80 + (i % 13)}`)}\n`, 'long.csv');
+    expect(rec.time.length).toBe(n);
+    expect(rec.meta.sampleIntervalS).toBe(0.1);
+    for (let i = 0; i < n; i += 997) {
+      expect(rec.columns.power![i]).toBe(200 + (i % 97));
+      expect(rec.columns.cadence![i]).toBe(80 + (i % 13));
+      expect(rec.time[i]).toBe(i / 10);
+    }
+  });
+});
+
 describe('inspectCsv and the mapping schema', () => {
   it('lists columns, preview rows and a guessed mapping', () => {
     const info = inspectCsv(`Time (s),Power (W),Cadence (rpm),Speed (km/h),Notes\n0,200,90,36,x\n1,210,91,36,y\n`);
