@@ -1,6 +1,8 @@
 import { writeFile } from 'node:fs/promises';
 import { parseArgs } from 'node:util';
+import { benchCompare } from './compare.bench.js';
 import { formatTable } from './format-table.js';
+import { benchImport } from './import.bench.js';
 import { describeMachine } from './machine.js';
 import { benchPeer } from './peer.bench.js';
 import { repoPath } from './repo-path.js';
@@ -11,6 +13,8 @@ import type { Bench, BenchRow } from './types.js';
  * `bench/<name>.bench.ts` exporting a {@link Bench} and list it here.
  */
 const BENCHES: Record<string, Bench> = {
+  import: benchImport,
+  compare: benchCompare,
   peer: benchPeer,
 };
 
