@@ -67,16 +67,23 @@ interface Measured {
   reps: number;
 }
 
-/** Interleaved runs after one warm-up of each; medians in ms. */
+/**
+ * Interleaved runs after one warm-up of each; medians in ms. The floor takes well under
+ * a millisecond at 1 Hz, so it runs several times per round and a pause of the machine
+ * during one of them does not become the figure.
+ */
 async function measure(reps: number, subject: () => unknown, baseline: () => unknown): Promise<Measured> {
   subject();
-  baseline();
+  for (let k = 0; k < 5; k++) baseline();
   const a: number[] = [];
   const b: number[] = [];
   for (let i = 0; i < reps; i++) {
     let t = performance.now();
-    baseline();
-    b.push(performance.now() - t);
+    for (let k = 0; k < 9; k++) {
+      t = performance.now();
+      baseline();
+      b.push(performance.now() - t);
+    }
     t = performance.now();
     subject();
     a.push(performance.now() - t);

@@ -1,12 +1,7 @@
 import { readFile } from 'node:fs/promises';
 import { basename } from 'node:path';
-import { isEngineError } from '../../shared/errors.js';
-import { compareRecordings } from '../../shared/engine/compare.js';
-import { compareReportSchema } from '../../shared/engine/compare-report.js';
-import { importRecording } from '../../shared/recording/import-recording.js';
 import type { Recording } from '../../shared/recording/recording.js';
 import { COMPARE_USAGE, parseCompareArgs, UsageError } from './compare-args.js';
-import { formatCompareReport } from './format-compare-report.js';
 
 /**
  * The headless compare command: reads the reference and each device under test, runs
@@ -14,6 +9,9 @@ import { formatCompareReport } from './format-compare-report.js';
  * validated by the report schema. Bad input (unknown flag, missing or unreadable file,
  * a file that is not a recording, recordings that do not overlap) prints one line and
  * exits with code 2.
+ *
+ * The parsers, the engine and the schema are loaded only once the command line is
+ * known to be good, so --help and usage errors answer at once.
  */
 async function main(argv: string[]): Promise<number> {
   const args = parseCompareArgs(argv);
@@ -21,9 +19,15 @@ async function main(argv: string[]): Promise<number> {
     process.stdout.write(`${COMPARE_USAGE}\n`);
     return 0;
   }
-  const reference = await load(args.referencePath);
-  const tests: Recording[] = [];
-  for (const path of args.testPaths) tests.push(await load(path));
+  const paths = [args.referencePath, ...args.testPaths];
+  const files: Uint8Array[] = [];
+  for (const path of paths) files.push(await readBytes(path));
+  const { importRecording } = await import('../../shared/recording/import-recording.js');
+  const recordings: Recording[] = [];
+  for (const [i, path] of paths.entries()) recordings.push(await parseRecording(path, files[i]!, importRecording));
+  const [reference, ...tests] = recordings as [Recording, ...Recording[]];
+  const { compareRecordings } = await import('../../shared/engine/compare.js');
+  const { isEngineError } = await import('../../shared/errors.js');
   let report;
   try {
     report = compareRecordings(reference, tests, args.options);
@@ -32,23 +36,29 @@ async function main(argv: string[]): Promise<number> {
     throw error;
   }
   if (args.json) {
+    const { compareReportSchema } = await import('../../shared/engine/compare-report.js');
     const checked = compareReportSchema.parse(report);
     process.stdout.write(`${JSON.stringify(checked, null, 2)}\n`);
   } else {
+    const { formatCompareReport } = await import('./format-compare-report.js');
     process.stdout.write(`${formatCompareReport(report)}\n`);
   }
   return 0;
 }
 
-async function load(path: string): Promise<Recording> {
-  let bytes: Uint8Array;
+type ImportRecording = typeof import('../../shared/recording/import-recording.js').importRecording;
+
+async function readBytes(path: string): Promise<Uint8Array> {
   try {
-    bytes = new Uint8Array(await readFile(path));
+    return new Uint8Array(await readFile(path));
   } catch (error) {
     const code = (error as NodeJS.ErrnoException).code;
     const why = code === 'ENOENT' ? 'no such file' : code === 'EISDIR' ? 'is a directory' : code === 'EACCES' ? 'permission denied' : 'cannot be read';
     throw new UsageError(`${path}: ${why}`);
   }
+}
+
+async function parseRecording(path: string, bytes: Uint8Array, importRecording: ImportRecording): Promise<Recording> {
   const name = basename(path);
   const result = await importRecording(bytes, name);
   if (!result.ok) {
