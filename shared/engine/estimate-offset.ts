@@ -85,9 +85,9 @@ export function estimateOffset(reference: Recording, test: Recording, options: E
   const q = Math.round((sStart - base - refStart) / dt);
 
   const minOverlap = Math.max(10, Math.floor(0.5 * Math.min(countFinite(r), countFinite(s))));
-  const { correlation } = normalisedCrossCorrelation(s, r, minOverlap);
   const lagLo = Math.max(-(r.length - 1), Math.ceil(-maxLagS / dt - 1e-9) - q);
   const lagHi = Math.min(s.length - 1, Math.floor(maxLagS / dt + 1e-9) - q);
+  const { correlation } = normalisedCrossCorrelation(s, r, { minOverlap, lags: { min: lagLo, max: lagHi } });
   const at = (k: number): number => correlation[k + r.length - 1]!;
   let bestK = NaN;
   let best = -Infinity;

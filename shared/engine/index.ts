@@ -2,7 +2,7 @@ export type { Table, TableMeta } from './table.js';
 export { tableLength } from './table.js';
 export { fft, fftSize } from './fft.js';
 export { crossCorrelate } from './cross-correlate.js';
-export { normalisedCrossCorrelation, type NormalisedCrossCorrelation } from './normalised-cross-correlation.js';
+export { normalisedCrossCorrelation, type NormalisedCrossCorrelation, type NormalisedCrossCorrelationOptions } from './normalised-cross-correlation.js';
 export { estimateOffset, type EstimateOffsetOptions, type OffsetEstimate } from './estimate-offset.js';
 export { shiftForOffset } from './shift-for-offset.js';
 export { resampleColumn, type ResampleColumnOptions, type ResampleMode } from './resample-column.js';

@@ -2,10 +2,18 @@ import { fft, fftSize } from './fft.js';
 
 /** Pearson correlation of `a[n + k]` with `v[n]` for every lag, over the pairs where both are finite. */
 export interface NormalisedCrossCorrelation {
-  /** Correlation per lag; index `j` holds lag `k = j - (v.length - 1)` (numpy 'full' order). NaN where the overlap is too small or flat. */
+  /** Correlation per lag; index `j` holds lag `k = j - (v.length - 1)` (numpy 'full' order). NaN where the overlap is too small or flat, or outside the lags asked for. */
   correlation: Float64Array;
   /** Number of pairs where both samples are finite, per lag. */
   overlap: Float64Array;
+}
+
+/** Options of {@link normalisedCrossCorrelation}. */
+export interface NormalisedCrossCorrelationOptions {
+  /** Lags with fewer finite pairs give NaN (default 2). */
+  minOverlap?: number;
+  /** Only these lags are needed, inclusive (default all): a smaller transform suffices. */
+  lags?: { min: number; max: number };
 }
 
 /**
@@ -13,47 +21,50 @@ export interface NormalisedCrossCorrelation {
  * correlation of `a[n + k]` and `v[n]` over the n where both are finite. Missing samples
  * (NaN) are masked, not treated as zero, and every lag is scaled by its own overlap, so
  * short overlaps at the edges cannot win by size alone. Six masked correlations through
- * the FFT: O(n log n).
+ * the FFT, two real signals per complex transform: O(n log n).
  *
- * @param minOverlap lags with fewer finite pairs give NaN (default 2)
  * @example
  * normalisedCrossCorrelation([1, 2, 3, 5], [1, 2, 3, 5]).correlation[3] // 1 (lag 0)
  */
 export function normalisedCrossCorrelation(
   a: ArrayLike<number>,
   v: ArrayLike<number>,
-  minOverlap = 2,
+  options: NormalisedCrossCorrelationOptions = {},
 ): NormalisedCrossCorrelation {
   const la = a.length;
   const lv = v.length;
+  const minOverlap = options.minOverlap ?? 2;
   const outLength = Math.max(0, la + lv - 1);
   const correlation = new Float64Array(outLength).fill(NaN);
   const overlap = new Float64Array(outLength);
   if (outLength === 0) return { correlation, overlap };
-  const n = fftSize(outLength);
+  const lo = Math.max(-(lv - 1), options.lags?.min ?? -(lv - 1));
+  const hi = Math.min(la - 1, options.lags?.max ?? la - 1);
+  if (hi < lo) return { correlation, overlap };
+  // A circular correlation of length n holds lag k plus lags k +- n; those fall outside
+  // the non-zero range [-(lv - 1), la - 1] for every wanted k once n >= la - lo and n >= hi + lv.
+  const n = fftSize(Math.max(la - lo, hi + lv));
   // Centring by the mean of the finite samples changes no correlation and keeps the
   // sums small, so the subtraction in the Pearson formula loses few digits.
-  const meanA = finiteMean(a);
-  const meanV = finiteMean(v);
-  const sA = spectra(a, meanA, n);
-  const sV = spectra(v, meanV, n);
-  const count = correlateSpectra(sA.mask, sV.mask);
-  const sumAV = correlateSpectra(sA.value, sV.value);
-  const sumA = correlateSpectra(sA.value, sV.mask);
-  const sumV = correlateSpectra(sA.mask, sV.value);
-  const sumAA = correlateSpectra(sA.square, sV.mask);
-  const sumVV = correlateSpectra(sA.mask, sV.square);
-  for (let j = 0; j < outLength; j++) {
-    const k = j - (lv - 1);
+  const sa = realParts(a, finiteMean(a), n);
+  const sv = realParts(v, finiteMean(v), n);
+  const [aValue, vValue] = transformPair(sa.value, sv.value);
+  const [aMask, vMask] = transformPair(sa.mask, sv.mask);
+  const [aSquare, vSquare] = transformPair(sa.square, sv.square);
+  const [count, sumAV] = correlatePair(aMask, vMask, aValue, vValue);
+  const [sumA, sumV] = correlatePair(aValue, vMask, aMask, vValue);
+  const [sumAA, sumVV] = correlatePair(aSquare, vMask, aMask, vSquare);
+  for (let k = lo; k <= hi; k++) {
+    const j = k + lv - 1;
     const idx = (k + n) % n;
     const m = Math.round(count[idx]!);
     overlap[j] = m;
     if (m < minOverlap) continue;
-    const sa = sumA[idx]!;
-    const sv = sumV[idx]!;
-    const cov = sumAV[idx]! - (sa * sv) / m;
-    const varA = sumAA[idx]! - (sa * sa) / m;
-    const varV = sumVV[idx]! - (sv * sv) / m;
+    const sumAk = sumA[idx]!;
+    const sumVk = sumV[idx]!;
+    const cov = sumAV[idx]! - (sumAk * sumVk) / m;
+    const varA = sumAA[idx]! - (sumAk * sumAk) / m;
+    const varV = sumVV[idx]! - (sumVk * sumVk) / m;
     if (varA <= 1e-9 * m || varV <= 1e-9 * m) continue;
     correlation[j] = Math.max(-1, Math.min(1, cov / Math.sqrt(varA * varV)));
   }
@@ -78,33 +89,61 @@ function finiteMean(x: ArrayLike<number>): number {
   return m > 0 ? sum / m : 0;
 }
 
-function spectra(x: ArrayLike<number>, mean: number, n: number): { value: Spectrum; mask: Spectrum; square: Spectrum } {
-  const value = { re: new Float64Array(n), im: new Float64Array(n) };
-  const mask = { re: new Float64Array(n), im: new Float64Array(n) };
-  const square = { re: new Float64Array(n), im: new Float64Array(n) };
+/** Centred values, the finite-sample mask and squared centred values, zero-padded to n. */
+function realParts(x: ArrayLike<number>, mean: number, n: number): { value: Float64Array; mask: Float64Array; square: Float64Array } {
+  const value = new Float64Array(n);
+  const mask = new Float64Array(n);
+  const square = new Float64Array(n);
   for (let i = 0; i < x.length; i++) {
     const raw = x[i]!;
     if (!Number.isFinite(raw)) continue;
     const c = raw - mean;
-    value.re[i] = c;
-    mask.re[i] = 1;
-    square.re[i] = c * c;
+    value[i] = c;
+    mask[i] = 1;
+    square[i] = c * c;
   }
-  fft(value.re, value.im);
-  fft(mask.re, mask.im);
-  fft(square.re, square.im);
   return { value, mask, square };
 }
 
-/** Inverse transform of A * conj(V): the circular correlation sum_n a[n + k] v[n] at index k mod n. */
-function correlateSpectra(a: Spectrum, v: Spectrum): Float64Array {
-  const n = a.re.length;
+/** Spectra of two real signals from one complex transform of x + i y. */
+function transformPair(x: Float64Array, y: Float64Array): [Spectrum, Spectrum] {
+  const n = x.length;
+  const re = x.slice();
+  const im = y.slice();
+  fft(re, im);
+  const X = { re: new Float64Array(n), im: new Float64Array(n) };
+  const Y = { re: new Float64Array(n), im: new Float64Array(n) };
+  for (let k = 0; k < n; k++) {
+    const m = (n - k) % n;
+    const zr = re[k]!;
+    const zi = im[k]!;
+    const wr = re[m]!;
+    const wi = im[m]!;
+    // X[k] = (Z[k] + conj Z[n-k]) / 2, Y[k] = (Z[k] - conj Z[n-k]) / 2i
+    X.re[k] = (zr + wr) / 2;
+    X.im[k] = (zi - wi) / 2;
+    Y.re[k] = (zi + wi) / 2;
+    Y.im[k] = (wr - zr) / 2;
+  }
+  return [X, Y];
+}
+
+/**
+ * Two real circular correlations at once: p = sum_n a1[n + k] v1[n] and
+ * q = sum_n a2[n + k] v2[n], from one inverse transform of A1 conj(V1) + i A2 conj(V2).
+ */
+function correlatePair(a1: Spectrum, v1: Spectrum, a2: Spectrum, v2: Spectrum): [Float64Array, Float64Array] {
+  const n = a1.re.length;
   const re = new Float64Array(n);
   const im = new Float64Array(n);
   for (let f = 0; f < n; f++) {
-    re[f] = a.re[f]! * v.re[f]! + a.im[f]! * v.im[f]!;
-    im[f] = a.im[f]! * v.re[f]! - a.re[f]! * v.im[f]!;
+    const pr = a1.re[f]! * v1.re[f]! + a1.im[f]! * v1.im[f]!;
+    const pi = a1.im[f]! * v1.re[f]! - a1.re[f]! * v1.im[f]!;
+    const qr = a2.re[f]! * v2.re[f]! + a2.im[f]! * v2.im[f]!;
+    const qi = a2.im[f]! * v2.re[f]! - a2.re[f]! * v2.im[f]!;
+    re[f] = pr - qi;
+    im[f] = pi + qr;
   }
   fft(re, im, true);
-  return re;
+  return [re, im];
 }
