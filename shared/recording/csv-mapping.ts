@@ -2,6 +2,7 @@ import { z } from 'zod';
 
 /** Units a CSV column may carry; each maps to one recording column's unit. */
 export const CSV_UNITS = ['W', 'kW', 'rpm', 'm/s', 'km/h', 'mph', 'bpm', '% left', '% right', '% unknown side', '%', 'index', 'teeth'] as const;
+/** A unit a CSV column may state. */
 export type CsvUnit = (typeof CSV_UNITS)[number];
 
 /** Recording columns a CSV column can feed. */
@@ -10,6 +11,7 @@ export const CSV_FIELDS = [
   'leftTorqueEffectiveness', 'rightTorqueEffectiveness', 'leftPedalSmoothness', 'rightPedalSmoothness',
   'frontGear', 'frontGearTeeth', 'rearGear', 'rearGearTeeth',
 ] as const;
+/** A recording column a CSV column can feed. */
 export type CsvField = (typeof CSV_FIELDS)[number];
 
 /** How the time column is written: seconds from the start, a clock (h:mm:ss, mm:ss) or ISO 8601 date-time. */
@@ -30,6 +32,7 @@ export const csvMappingSchema = z.object({
   /** Absolute start, ms since the Unix epoch, for files whose time column is relative. */
   startMs: z.number().optional(),
 });
+/** A CSV column mapping, as validated by {@link csvMappingSchema}. */
 export type CsvMapping = z.infer<typeof csvMappingSchema>;
 
 /** The unit each field accepts, first = the recording's own unit. */

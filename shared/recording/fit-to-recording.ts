@@ -1,4 +1,4 @@
-import { EngineError, type EngineWarning } from '../errors.js';
+import type { EngineWarning } from '../errors.js';
 import { fitDeviceIdentity } from './fit-device.js';
 import { fitEvents, gearColumns, pausedSeconds, timestampMs, type FitParsedMessage } from './fit-events.js';
 import type { BalanceSide, ColumnName, Recording, RecordingColumns } from './recording.js';
@@ -186,9 +186,4 @@ function reportTimeIssues(issues: { repeated: number[]; backwards: number[]; unt
   say('fit_backward_timestamp', issues.backwards, 'have a timestamp earlier than the one before and were dropped');
   say('fit_missing_timestamp', issues.untimed, 'have no timestamp and were dropped');
   say('fit_timestamp_jump', issues.jumps, 'jump ahead of the records around them and were dropped');
-}
-
-/** Throws when no sample survived or the file has no usable time (kept separate so callers can explain). */
-export function assertHasSamples(recording: Recording, fileName: string): void {
-  if (recording.time.length === 0) throw new EngineError('too_short', `${fileName} holds no records with a timestamp, so there is nothing to compare.`, { file: fileName });
 }

@@ -20,8 +20,9 @@ describe('parseFit agrees with the FIT SDK decoder on the same bytes', () => {
       const { bytes } = byName(name);
       const sdk = new Decoder(Stream.fromByteArray(bytes)).read();
       expect(sdk.errors).toEqual([]);
+      const { recordMesgs = [], eventMesgs = [], lapMesgs = [], fileIdMesgs = [], deviceInfoMesgs = [] } = sdk.messages;
       const rec = await read(bytes, name);
-      const sdkRecords = sdk.messages.recordMesgs;
+      const sdkRecords = recordMesgs;
       expect(rec.time.length).toBe(sdkRecords.length);
       const t0 = (sdkRecords[0]!.timestamp as Date).getTime();
       expect(rec.meta.startMs).toBe(t0);
@@ -46,7 +47,7 @@ describe('parseFit agrees with the FIT SDK decoder on the same bytes', () => {
           expect(rec.meta.balanceSide).toBe(raw & 0x80 ? 'right' : 'unknown');
         }
       });
-      const sdkGears = sdk.messages.eventMesgs.filter((e) => e.event === 'frontGearChange' || e.event === 'rearGearChange');
+      const sdkGears = eventMesgs.filter((e) => e.event === 'frontGearChange' || e.event === 'rearGearChange');
       const gears = rec.events.filter((e) => e.kind === 'gear');
       expect(gears.length).toBe(sdkGears.length);
       gears.forEach((g, k) => {
@@ -55,16 +56,16 @@ describe('parseFit agrees with the FIT SDK decoder on the same bytes', () => {
         expect(g.front).toEqual({ index: e.frontGearNum, teeth: e.frontGear });
         expect(g.rear).toEqual({ index: e.rearGearNum, teeth: e.rearGear });
       });
-      const timers = sdk.messages.eventMesgs.filter((e) => e.event === 'timer');
+      const timers = eventMesgs.filter((e) => e.event === 'timer');
       expect(rec.events.filter((e) => e.kind === 'timer_start' || e.kind === 'timer_stop').map((e) => e.kind)).toEqual(
         timers.map((e) => (e.eventType === 'start' ? 'timer_start' : 'timer_stop')),
       );
       const laps = rec.events.filter((e) => e.kind === 'lap');
       expect(laps.map((l) => [l.startS, l.endS])).toEqual(
-        sdk.messages.lapMesgs.map((l) => [((l.startTime as Date).getTime() - t0) / 1000, ((l.timestamp as Date).getTime() - t0) / 1000]),
+        lapMesgs.map((l) => [((l.startTime as Date).getTime() - t0) / 1000, ((l.timestamp as Date).getTime() - t0) / 1000]),
       );
-      const fileId = sdk.messages.fileIdMesgs[0]!;
-      const info = sdk.messages.deviceInfoMesgs[0]!;
+      const fileId = fileIdMesgs[0]!;
+      const info = deviceInfoMesgs[0]!;
       expect(rec.meta.device.serialNumber).toBe(fileId.serialNumber);
       expect(rec.meta.device.productId).toBe(fileId.product);
       expect(rec.meta.device.manufacturer).toBe(fileId.manufacturer); // 'development' (id 255) in both
