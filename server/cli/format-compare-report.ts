@@ -38,6 +38,13 @@ export function formatCompareReport(report: CompareReport): string {
       clock(s.startS), clock(s.endS), s.kind, fixed(s.reference.total, 1), fixed(s.test.total, 1),
       signed(s.diffPct.total, 2), signed(s.diffPct.left, 2), signed(s.diffPct.right, 2),
     ])));
+    const pooled = c.sectionsPooled;
+    if (c.segments.length > 0) {
+      lines.push(
+        `  all sections (${duration(pooled.seconds)}): total ${signed(pooled.diffPct.total, 2)}%, left ${signed(pooled.diffPct.left, 2)}%, right ${signed(pooled.diffPct.right, 2)}%; ` +
+          `mean of section ratios ${signed(pooled.meanOfSectionRatiosPct.total, 2)}%`,
+      );
+    }
     const g = c.agreement;
     const r = c.regression;
     lines.push(

@@ -90,6 +90,17 @@ export const comparisonSchema = z.object({
     params: z.record(z.string(), z.number()),
   }),
   segments: z.array(segmentSchema),
+  /**
+   * The sections pooled: means over all of them (the primary comparison: averages over
+   * steady sections), and the mean of the per-section ratios as testers average them.
+   */
+  sectionsPooled: z.object({
+    seconds: z.number(),
+    reference: sidesSchema,
+    test: sidesSchema,
+    diffPct: sidesSchema,
+    meanOfSectionRatiosPct: sidesSchema,
+  }),
   agreement: z.object({
     n: z.number(),
     biasW: num,

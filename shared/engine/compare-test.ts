@@ -17,7 +17,7 @@ import type { Segment } from './segment.js';
 import { segmentsFromLaps } from './segments-from-laps.js';
 import { segmentsFromRanges } from './segments-from-ranges.js';
 import { mapSides, sideMeans } from './side-means.js';
-import { optimalBlockLength, percentDifference } from './stats/index.js';
+import { meanOfRatios, optimalBlockLength, percentDifference } from './stats/index.js';
 import type { GainCell } from './fit-leg-gear-gains.js';
 
 /**
@@ -70,8 +70,9 @@ export function compareTest(reference: Recording, test: Recording, o: ResolvedCo
   });
 
   const { source, params, segments } = chooseSegments(reference, paired, o, warnings);
-  const segmentRows = segments.map((s) => {
-    const m = sideMeans(paired, buildSelection(paired, { ranges: [s] }));
+  const segmentMeans = segments.map((s) => sideMeans(paired, buildSelection(paired, { ranges: [s] })));
+  const segmentRows = segments.map((s, i) => {
+    const m = segmentMeans[i]!;
     return {
       startS: s.startS,
       endS: s.endS,
@@ -83,6 +84,10 @@ export function compareTest(reference: Recording, test: Recording, o: ResolvedCo
       diffPct: jsonNumbers(mapSides(m.test, m.reference, percentDifference)),
     };
   });
+
+  const pooled = sideMeans(paired, buildSelection(paired, { ranges: segments }));
+  const sectionRatioPct = (side: 'total' | 'left' | 'right'): number =>
+    (meanOfRatios(segments.map((_, i) => segmentMeans[i]!.test[side] / segmentMeans[i]!.reference[side])) - 1) * 100;
 
   const diagnosis = diagnose(paired, { tolerancePct: o.tolerancePct, seed: o.seed, replicates: o.replicates, blockLength });
   const parts: VerdictInput[] = [];
@@ -125,6 +130,13 @@ export function compareTest(reference: Recording, test: Recording, o: ResolvedCo
     byFrontGear: byFrontGear.map(({ legs: _legs, ...row }) => row),
     segmentation: { source, params },
     segments: segmentRows,
+    sectionsPooled: {
+      seconds: pooled.n.total * dt,
+      reference: jsonNumbers(pooled.reference),
+      test: jsonNumbers(pooled.test),
+      diffPct: jsonNumbers(mapSides(pooled.test, pooled.reference, percentDifference)),
+      meanOfSectionRatiosPct: jsonNumbers({ total: sectionRatioPct('total'), left: sectionRatioPct('left'), right: sectionRatioPct('right') }),
+    },
     agreement: {
       n: a.n,
       biasW: jsonNumber(a.biasW),

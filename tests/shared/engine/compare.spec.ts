@@ -52,6 +52,10 @@ describe('compareRecordings', () => {
       expect(Math.abs(s.diffPct.total! - 0.5)).toBeLessThan(0.5);
     });
     expect(c.segmentation).toMatchObject({ source: 'steady', params: { tolerancePct: 5, minDurationS: 60 } });
+    const covered = c.segments.reduce((sum, s) => sum + s.seconds, 0);
+    expect(c.sectionsPooled.seconds).toBe(covered);
+    expect(Math.abs(c.sectionsPooled.diffPct.total! - 0.5)).toBeLessThan(0.2);
+    expect(Math.abs(c.sectionsPooled.meanOfSectionRatiosPct.left! - 0.5)).toBeLessThan(0.3);
   });
 
   it('writes null, not NaN, for legs a device does not report', () => {
