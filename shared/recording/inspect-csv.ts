@@ -36,7 +36,8 @@ const SAMPLE_ROWS = 50;
  * @example inspectCsv('time,power\n0,200\n1,210').guessedMapping?.columns // [{ column: 'power', field: 'power', unit: 'W' }]
  */
 export function inspectCsv(text: string, fileName = 'CSV'): CsvInspection {
-  const parsed = Papa.parse<string[]>(text, { preview: SAMPLE_ROWS + 1, skipEmptyLines: 'greedy', delimiter: '' });
+  // Only the head: papaparse's delimiter detection otherwise touches the whole text.
+  const parsed = Papa.parse<string[]>(headOf(text, 64 * 1024), { preview: SAMPLE_ROWS + 1, skipEmptyLines: 'greedy', delimiter: '' });
   const rows = parsed.data;
   const delimiter = normaliseDelimiter(parsed.meta.delimiter);
   return describeRows(rows, delimiter, fileName, undefined);
@@ -109,4 +110,11 @@ function guessMapping(names: string[], data: string[][], hasHeader: boolean, del
   });
   // A header-less file: numeric columns after the time are unnamed; guess nothing about them.
   return time ? { delimiter, hasHeader, time, columns } : undefined;
+}
+
+/** The text up to the last line break within `max` characters (all of it when shorter). */
+export function headOf(text: string, max: number): string {
+  if (text.length <= max) return text;
+  const cut = text.lastIndexOf('\n', max);
+  return cut > 0 ? text.slice(0, cut + 1) : text.slice(0, max);
 }

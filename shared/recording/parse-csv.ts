@@ -6,7 +6,7 @@ import { isoLacksZone, parseTimeCell } from './csv-time.js';
 import { parseDecimal } from './parse-decimal.js';
 import { importFailure } from './import-failure.js';
 import type { ImportOptions, ImportResult } from './import-result.js';
-import { describeRows } from './inspect-csv.js';
+import { describeRows, headOf } from './inspect-csv.js';
 import type { BalanceSide, Recording, RecordingColumns } from './recording.js';
 import { sampleInterval } from './sample-interval.js';
 import { splitPower } from './split-power.js';
@@ -179,13 +179,6 @@ function completeLegs(columns: RecordingColumns, side: BalanceSide, m: number): 
     const right = new Float64Array(m);
     if (splitPower(power, balance, side, left, right)) Object.assign(columns, { leftPower: left, rightPower: right });
   }
-}
-
-/** The text up to the last line break within `max` characters (all of it when shorter). */
-function headOf(text: string, max: number): string {
-  if (text.length <= max) return text;
-  const cut = text.lastIndexOf('\n', max);
-  return cut > 0 ? text.slice(0, cut + 1) : text.slice(0, max);
 }
 
 /** Upper bound of the row count, so the columns are allocated once. */
