@@ -79,6 +79,9 @@ async function main(): Promise<void> {
   const shownHost = config.host === '0.0.0.0' || config.host === '::' ? 'localhost' : config.host;
   const lines = [
     `Cogbook is running at http://${shownHost}:${port}  (database: ${database.kind}${lock ? `, data in ${config.dataDir}` : ''})`,
+    ...(config.databaseUrl && !process.env.AUTH_SECRET
+      ? [`Note: AUTH_SECRET is not set; this process uses ${config.dataDir}/secret. Give every process sharing the database the same AUTH_SECRET.`]
+      : []),
     catcher ? `Mail is caught locally (no SMTP_URL): workspace admins read it under /api/outbox.` : `Mail goes out through SMTP_URL.`,
   ];
   if (seeded || (await findUserByEmail(db, DEMO_ACCOUNTS[0]!.email))) {

@@ -81,9 +81,22 @@ function mtimeMs(file: string): number {
 function isAlive(pid: number): boolean {
   try {
     process.kill(pid, 0);
-    return true;
   } catch (error) {
     // EPERM: the process exists but belongs to someone else.
-    return (error as NodeJS.ErrnoException).code === 'EPERM';
+    if ((error as NodeJS.ErrnoException).code !== 'EPERM') return false;
+  }
+  return !pidReusedByOtherProgram(pid);
+}
+
+/**
+ * After a crash and a reboot the PID may belong to some unrelated program; where
+ * /proc tells us the command line, only a Node process counts as the holder.
+ */
+function pidReusedByOtherProgram(pid: number): boolean {
+  try {
+    const cmdline = readFileSync(`/proc/${pid}/cmdline`, 'utf8');
+    return cmdline.length > 0 && !/node/i.test(cmdline);
+  } catch {
+    return false;
   }
 }

@@ -51,6 +51,18 @@ describe('acquireDataDirLock', () => {
     acquireDataDirLock(dir).release();
   });
 
+  it('takes over a lock whose PID now belongs to another program', async () => {
+    const dir = tempDir();
+    const other = spawn('sleep', ['30']);
+    try {
+      writeFileSync(join(dir, 'cogbook.lock'), `${other.pid}\n`);
+      acquireDataDirLock(dir).release();
+    } finally {
+      other.kill();
+      await new Promise((r) => other.once('exit', r));
+    }
+  });
+
   it('takes over a lock whose PID is dead', () => {
     const dir = tempDir();
     const dead = spawnSync(process.execPath, ['-e', '']).pid;
