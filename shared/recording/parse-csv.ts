@@ -90,11 +90,13 @@ function readCsv(text: string, fileName: string, given: CsvMapping | undefined, 
   let last = -Infinity;
   let m = 0;
   let r = -1;
+  const format = mapping.time.format;
+  const readTime = format === 'seconds' ? parseDecimal : (cell: string): number => parseTimeCell(cell, format);
   const consume = (row: string[]): void => {
     r++;
-    if (r < firstData || isBlank(row)) return;
+    if (r < firstData || (row.length === 1 && isBlank(row))) return;
     const timeCell = row[timeAt] ?? '';
-    const raw = parseTimeCell(decimalComma ? timeCell.replace(',', '.') : timeCell, mapping.time.format);
+    const raw = readTime(decimalComma ? timeCell.replace(',', '.') : timeCell);
     if (Number.isNaN(raw)) {
       issues.badTime.push(r + 1);
       return;
