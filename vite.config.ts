@@ -50,6 +50,29 @@ export default defineConfig({
           fileParallelism: false,
         },
       },
+      {
+        extends: true,
+        test: {
+          name: 'security',
+          environment: 'node',
+          include: ['tests/security/**/*.spec.ts'],
+          testTimeout: 300_000,
+          hookTimeout: 180_000,
+          fileParallelism: false,
+        },
+      },
+      {
+        extends: true,
+        test: {
+          // Long crash loops: only `npm run test:stress` sets COGBOOK_STRESS, so a plain `vitest run` skips them.
+          name: 'stress',
+          environment: 'node',
+          include: process.env.COGBOOK_STRESS === '1' ? ['tests/stress/**/*.spec.ts'] : ['tests/stress/no-stress-without-COGBOOK_STRESS'],
+          testTimeout: 2_000_000,
+          hookTimeout: 180_000,
+          fileParallelism: false,
+        },
+      },
     ],
   },
 });

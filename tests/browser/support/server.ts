@@ -11,6 +11,8 @@ export interface RunningServer {
   /** Everything the server printed, for diagnosing a failed test. */
   output: () => string;
   stop: () => Promise<void>;
+  /** The server process itself (crash tests SIGKILL it). */
+  child: ChildProcess;
 }
 
 export async function freePort(): Promise<number> {
@@ -32,7 +34,8 @@ export async function startServer(env: Record<string, string> = {}): Promise<Run
   const port = await freePort();
   const dataDir = env.DATA_DIR ?? mkdtempSync(join(tmpdir(), 'cogbook-browser-'));
   const child: ChildProcess = spawn(process.execPath, ['dist/node/server/index.js'], {
-    env: { ...process.env, NODE_ENV: 'production', PORT: String(port), HOST: '127.0.0.1', DATA_DIR: dataDir, LOG_LEVEL: 'warn', ...env },
+    // BASE_URL explicitly: vitest puts Vite's BASE_URL ('/') into process.env.
+    env: { ...process.env, NODE_ENV: 'production', PORT: String(port), HOST: '127.0.0.1', BASE_URL: `http://127.0.0.1:${port}`, DATA_DIR: dataDir, LOG_LEVEL: 'warn', ...env },
     stdio: ['ignore', 'pipe', 'pipe'],
   });
   let output = '';
@@ -57,6 +60,7 @@ export async function startServer(env: Record<string, string> = {}): Promise<Run
   return {
     url,
     dataDir,
+    child,
     output: () => output,
     stop: async () => {
       if (child.exitCode === null) {
