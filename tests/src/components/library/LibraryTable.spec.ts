@@ -73,9 +73,35 @@ describe('LibraryTable', () => {
   it('filters by title search and shows a clear-filters state when nothing matches', async () => {
     const wrapper = await mountTable({ notebooks: [notebook()], canCreate: true });
 
-    await wrapper.get('input[aria-label="Search notebooks by title"]').setValue('sprint');
+    await wrapper.get('input[aria-label="Search notebooks by title or owner"]').setValue('sprint');
 
     expect(wrapper.text()).toContain('No notebook matches these filters.');
     expect(wrapper.text()).toContain('0 of 1');
+  });
+});
+
+describe('LibraryTable filters', () => {
+  const two = [
+    notebook(),
+    notebook({ id: 'nb2', title: 'Pedals L/R', owner: { id: 'u2', name: 'Bo Rider' }, role: 'viewer', workspace: { id: 'w2', name: 'Shop' } }),
+  ];
+
+  it('finds a notebook by its owner\'s name as well as its title', async () => {
+    const wrapper = await mountTable({ notebooks: two, canCreate: true });
+
+    await wrapper.get('input[aria-label="Search notebooks by title or owner"]').setValue('bo rid');
+
+    const links = wrapper.findAll('a').map((a) => a.attributes('href'));
+    expect(links).toEqual(['/notebooks/nb2']);
+    expect(wrapper.text()).toContain('1 of 2 notebooks');
+  });
+
+  it('offers owner and workspace filters as labelled selects, not only a column menu', async () => {
+    const wrapper = await mountTable({ notebooks: two, canCreate: true });
+
+    for (const label of ['Show notebooks', 'Filter by workspace', 'Filter by owner']) {
+      expect(wrapper.find(`[aria-label="${label}"]`).exists(), label).toBe(true);
+    }
+    expect(wrapper.find('.ant-table-filter-trigger').exists()).toBe(false);
   });
 });
