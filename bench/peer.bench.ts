@@ -2,7 +2,7 @@ import { mkdtemp, rm } from 'node:fs/promises';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { agreementNote, cogbookHeadline, compareHeadlines, peerHeadline } from './peer/agreement.js';
-import { writeRideFiles, type RideFiles } from './peer/ride-files.js';
+import { SHORT_RIDE, writeRideFiles, type RideFiles } from './peer/ride-files.js';
 import { repoPath } from './repo-path.js';
 import { median, timeProcess } from './time-process.js';
 import type { BenchOptions, BenchRow } from './types.js';
@@ -42,12 +42,15 @@ export async function benchPeer(options: BenchOptions): Promise<BenchRow[]> {
     const csv1 = await writeRideFiles(dir, { hours, rateHz: 1, format: 'csv' });
     const csv10 = await writeRideFiles(dir, { hours, rateHz: 10, format: 'csv' });
     const fit1 = await writeRideFiles(dir, { hours, rateHz: 1, format: 'fit' });
+    const short = await writeRideFiles(dir, { hours: 0, rateHz: 1, format: 'csv', blocks: SHORT_RIDE });
     const cases: Case[] = [
+      // Nearly all start-up: every module the command needs against importing pandas.
+      { name: 'start-up: compare 6 min 1 Hz CSV vs pandas', cogbook: short, peer: short, sameClock: true },
       { name: `compare ${hours} h 1 Hz CSV vs pandas`, cogbook: csv1, peer: csv1, sameClock: true },
       { name: `compare ${hours} h 10 Hz CSV vs pandas`, cogbook: csv10, peer: csv10, sameClock: true },
       { name: `compare ${hours} h 1 Hz FIT vs pandas CSV`, cogbook: fit1, peer: csv1, sameClock: false },
     ];
-    const rows: BenchRow[] = [await startUpRow(env, reps, versions)];
+    const rows: BenchRow[] = [];
     for (const c of cases) {
       process.stderr.write(`  ${c.name} ...\n`);
       rows.push(await runCase(c, env, reps, `${versions}${envNote}`));
@@ -83,22 +86,6 @@ async function runCase(c: Case, env: NodeJS.ProcessEnv, reps: number, peerNote: 
     ratio: value / baseline,
     note: `${agreementNote(headline, mismatches, c.sameClock)}; ${c.cogbook.samples} samples/file; median of ${reps}; ${peerNote}`,
   };
-}
-
-/** Start-up alone: the compare command loading its modules (--help) against python importing pandas and numpy. */
-async function startUpRow(env: NodeJS.ProcessEnv, reps: number, versions: string): Promise<BenchRow> {
-  const cogbook: number[] = [];
-  const peer: number[] = [];
-  for (let k = 0; k <= reps; k++) {
-    const a = await timeProcess(process.execPath, [repoPath('dist/node/server/cli/compare.js'), '--help']);
-    const b = await timeProcess(PYTHON, ['-c', 'import numpy, pandas'], env);
-    if (k === 0) continue;
-    cogbook.push(a.ms);
-    peer.push(b.ms);
-  }
-  const value = median(cogbook);
-  const baseline = median(peer);
-  return { name: 'start-up: compare --help vs import pandas', value, unit: 'ms', baseline, ratio: value / baseline, note: `part of every row below; ${versions}` };
 }
 
 async function pandasVersions(env: NodeJS.ProcessEnv): Promise<string | undefined> {
