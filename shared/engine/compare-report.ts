@@ -131,6 +131,19 @@ export const comparisonSchema = z.object({
       z.object({ leg: z.enum(['total', 'left', 'right']), frontTeeth: z.array(z.number()).nullable(), diffPct: num, lowPct: num, highPct: num }),
     ),
     residualTotalPct: num,
+    /** Sections that read like another chainring than the one reported. */
+    gearMismatches: z.array(
+      z.object({
+        startS: z.number(),
+        endS: z.number(),
+        leg: z.enum(['total', 'left', 'right']),
+        reportedTeeth: z.number(),
+        readsLikeTeeth: z.number(),
+        diffPct: z.number(),
+        reportedGainPct: z.number(),
+        readsLikeGainPct: z.number(),
+      }),
+    ),
     zeroOffset: z.object({ detected: z.boolean(), interceptW: num, interceptSe: num, slope: num }),
     drift: z.object({ detected: z.boolean(), wPerHour: num, seWPerHour: num, overRideW: num }),
     singleSided: z.object({

@@ -10,6 +10,7 @@ import { STEADY_BLOCK_DEFAULTS, detectSteadyBlocks } from './detect-steady-block
 import { diagnose } from './diagnose.js';
 import { estimateOffset } from './estimate-offset.js';
 import { fileInfo } from './file-info.js';
+import { findGearMismatches } from './find-gear-mismatches.js';
 import { inferGears } from './infer-gears.js';
 import { jsonNumber, jsonNumbers } from './json-number.js';
 import { pairRecordings, type PairedTable } from './pair-recordings.js';
@@ -90,6 +91,12 @@ export function compareTest(reference: Recording, test: Recording, o: ResolvedCo
     (meanOfRatios(segments.map((_, i) => segmentMeans[i]!.test[side] / segmentMeans[i]!.reference[side])) - 1) * 100;
 
   const diagnosis = diagnose(paired, { tolerancePct: o.tolerancePct, seed: o.seed, replicates: o.replicates, blockLength });
+  const mismatches = findGearMismatches(paired, segments, diagnosis.explained, diagnosis.gains, diagnosis.minEffectPct);
+  const mismatchFindings = mismatches.map(
+    (m) =>
+      `Section ${clock(m.startS)}-${clock(m.endS)} is reported on ${m.reportedTeeth}T, but the ${m.leg === 'total' ? 'total' : `${m.leg} leg`} reads ${signed(m.diffPct)}% there, ` +
+      `like ${m.readsLikeTeeth}T (${signed(m.readsLikeGainPct)}%) rather than ${m.reportedTeeth}T (${signed(m.reportedGainPct)}%): check where the chain was; a gear override corrects it.`,
+  );
   const parts: VerdictInput[] = [];
   for (const leg of ['left', 'right'] as const) {
     parts.push({ what: `${leg} leg`, seconds: overall.means.n[leg] * dt, diffPct: overall.diffPct[leg] });
@@ -160,7 +167,7 @@ export function compareTest(reference: Recording, test: Recording, o: ResolvedCo
     }),
     drift: jsonNumbers({ wPerHour: overall.drift.wPerHour, seWPerHour: overall.drift.seWPerHour }),
     diagnosis: {
-      findings: diagnosis.findings,
+      findings: [...diagnosis.findings, ...mismatchFindings],
       minEffectPct: diagnosis.minEffectPct,
       gains: diagnosis.gains.map((g) => ({
         leg: g.leg,
@@ -171,6 +178,7 @@ export function compareTest(reference: Recording, test: Recording, o: ResolvedCo
       })),
       explained: diagnosis.explained.map((e) => ({ leg: e.leg, frontTeeth: e.frontTeeth, ...jsonNumbers({ diffPct: e.diffPct, lowPct: e.lowPct, highPct: e.highPct }) })),
       residualTotalPct: jsonNumber(diagnosis.residualTotalPct),
+      gearMismatches: mismatches,
       zeroOffset: { detected: diagnosis.zeroOffset.detected, ...jsonNumbers({ interceptW: diagnosis.zeroOffset.interceptW, interceptSe: diagnosis.zeroOffset.interceptSe, slope: diagnosis.zeroOffset.slope }) },
       drift: { detected: diagnosis.drift.detected, ...jsonNumbers({ wPerHour: diagnosis.drift.wPerHour, seWPerHour: diagnosis.drift.seWPerHour, overRideW: diagnosis.drift.overRideW }) },
       singleSided: {
@@ -234,6 +242,15 @@ function chooseSegments(
   const blocks = detectSteadyBlocks(paired.timeS, paired.columns.ref_power, params);
   if (blocks.length === 0) warnings.push({ code: 'no_steady_blocks', message: 'no steady block was found in the reference power' });
   return { source: 'steady', params, segments: blocks };
+}
+
+function clock(seconds: number): string {
+  const s = Math.round(seconds);
+  return `${Math.floor(s / 3600)}:${String(Math.floor((s % 3600) / 60)).padStart(2, '0')}:${String(s % 60).padStart(2, '0')}`;
+}
+
+function signed(x: number): string {
+  return `${x >= 0 ? '+' : ''}${x.toFixed(1)}`;
 }
 
 function distinctTeeth(column: Float64Array | undefined): number[] {

@@ -24,6 +24,7 @@ export { fitLegGearGains, type FitLegGearGainsOptions, type GainCell } from './f
 export { fitLinearModel, type LinearModelFit } from './fit-linear-model.js';
 export { detectSingleSided, type SingleSidedCheck } from './detect-single-sided.js';
 export { diagnose, type Diagnosis, type DiagnoseOptions, type GainFinding } from './diagnose.js';
+export { findGearMismatches, type GearMismatch } from './find-gear-mismatches.js';
 export { decideVerdict, type Verdict, type VerdictCheck, type VerdictInput, type VerdictOptions } from './decide-verdict.js';
 export { resolveCompareOptions, type CompareOptions, type ResolvedCompareOptions } from './compare-options.js';
 export { compareTest } from './compare-test.js';

@@ -85,8 +85,16 @@ describe('compareRecordings', () => {
     const plain = compareRecordings(ref, [test], { replicates: 100 }).comparisons[0]!;
     const fixed = compareRecordings(ref, [test], { replicates: 100, gearOverrides: [{ startS: trick.startS, endS: trick.endS, frontTeeth: 34 }] }).comparisons[0]!;
     const left50 = (c: typeof plain) => c.diagnosis.gains.find((g) => g.leg === 'left' && g.frontTeeth === 50)!.diffPct!;
-    // Without the override the block with the chain on 34T counts as 50T and dilutes the gain.
+    // Without the override the block with the chain on 34T counts as 50T and dilutes the gain,
+    // and the report points at that block.
     expect(left50(plain)).toBeLessThan(7.7);
+    const flagged = plain.diagnosis.gearMismatches;
+    expect(flagged).toHaveLength(1);
+    expect(flagged[0]).toMatchObject({ leg: 'left', reportedTeeth: 50, readsLikeTeeth: 34 });
+    expect(flagged[0]!.startS).toBeGreaterThanOrEqual(trick.startS);
+    expect(flagged[0]!.endS).toBeLessThanOrEqual(trick.endS);
+    expect(plain.diagnosis.findings.join(' ')).toMatch(/is reported on 50T, but the left leg reads [+-]0\.\d% there, like 34T/);
+    expect(fixed.diagnosis.gearMismatches).toEqual([]);
     expect(Math.abs(left50(fixed) - 8)).toBeLessThanOrEqual(0.3);
   });
 
