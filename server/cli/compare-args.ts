@@ -31,6 +31,8 @@ Compares each device under test with the reference and prints a report.
   --chainrings 53,39      chainring teeth, to infer gears from speed and cadence
   --cogs 11,12,...,28     cog teeth (a range such as 11-30 means every tooth count in it)
   --wheel 25-622          ETRTO tyre size or circumference in mm
+  --front-override S-E:T  the chain was on chainring T (teeth) from S to E seconds after
+                          the reference's first sample, whatever the file reports (repeat)
   --seed N                seed of the bootstrap intervals (default 1)
   --json                  print the report as one JSON document
   --help                  this text`;
@@ -45,7 +47,7 @@ export function parseCompareArgs(argv: string[]): CompareArgs {
   let values;
   try {
     ({ values } = parseArgs({
-      args: argv,
+      args: joinNegativeNumbers(argv),
       strict: true,
       allowPositionals: false,
       options: {
@@ -60,6 +62,7 @@ export function parseCompareArgs(argv: string[]): CompareArgs {
         chainrings: { type: 'string' },
         cogs: { type: 'string' },
         wheel: { type: 'string' },
+        'front-override': { type: 'string', multiple: true },
         seed: { type: 'string' },
         json: { type: 'boolean', default: false },
         help: { type: 'boolean', short: 'h', default: false },
@@ -85,8 +88,34 @@ export function parseCompareArgs(argv: string[]): CompareArgs {
   if (values.chainrings !== undefined) options.chainrings = teeth('--chainrings', values.chainrings);
   if (values.cogs !== undefined) options.cogs = teeth('--cogs', values.cogs);
   if (values.wheel !== undefined) options.wheel = /^\d+(\.\d+)?$/.test(values.wheel) ? Number(values.wheel) : values.wheel;
+  if (values['front-override'] !== undefined) options.gearOverrides = values['front-override'].map(frontOverride);
   if (values.seed !== undefined) options.seed = Math.trunc(finite('--seed', values.seed));
   return { referencePath: values.reference, testPaths: values.test, json: values.json, help: false, options };
+}
+
+/** `--offset -12` would read -12 as a flag: pass such values as `--offset=-12`. */
+function joinNegativeNumbers(argv: string[]): string[] {
+  const out: string[] = [];
+  for (let i = 0; i < argv.length; i++) {
+    const arg = argv[i]!;
+    const next = argv[i + 1];
+    if (arg.startsWith('--') && !arg.includes('=') && next !== undefined && /^-\d/.test(next)) {
+      out.push(`${arg}=${next}`);
+      i++;
+    } else {
+      out.push(arg);
+    }
+  }
+  return out;
+}
+
+/** "2700-2940:34" -> the chain on 34T from 2700 s to 2940 s. */
+function frontOverride(text: string): { startS: number; endS: number; frontTeeth: number } {
+  const match = /^\s*(\d+(?:\.\d+)?)\s*-\s*(\d+(?:\.\d+)?)\s*:\s*(\d+)\s*$/.exec(text);
+  if (!match || !(Number(match[2]) > Number(match[1]))) {
+    throw new UsageError(`--front-override needs START-END:TEETH in seconds, e.g. 2700-2940:34, got "${text}"`);
+  }
+  return { startS: Number(match[1]), endS: Number(match[2]), frontTeeth: Number(match[3]) };
 }
 
 function finite(flag: string, text: string): number {

@@ -250,7 +250,8 @@ function clock(seconds: number): string {
 }
 
 function signed(x: number): string {
-  return `${x >= 0 ? '+' : ''}${x.toFixed(1)}`;
+  const r = Math.round(x * 10) / 10 || 0; // no "-0.0"
+  return `${r >= 0 ? '+' : ''}${r.toFixed(1)}`;
 }
 
 function distinctTeeth(column: Float64Array | undefined): number[] {
