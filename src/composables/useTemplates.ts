@@ -1,5 +1,4 @@
 import { useMutation, useQueryClient } from '@tanstack/vue-query';
-import { z } from 'zod';
 import type { NotebookResponse } from '../../shared/api/notebooks.js';
 import { instantiateTemplate, listTemplates, type NotebookTemplate, type TemplateKey } from '../../shared/demo/templates.js';
 import { createNotebook } from '@/api/notebooks';
@@ -22,10 +21,6 @@ function protocolOf(t: NotebookTemplate): string {
   const note = t.document.cells.find((c) => c.kind === 'note' && c.name === 'protocol');
   return note?.kind === 'note' ? note.config.markdown : '';
 }
-
-// Templating parses the document with zod, whose first object parse probes `new Function`
-// unless told not to; the page's CSP blocks that probe and reports a violation.
-z.config({ jitless: true });
 
 // Templates are pure data that never change at run time, so they are built once per page.
 let cards: TemplateCard[] | null = null;
