@@ -44,7 +44,21 @@ export function errorHandler(logger: Logger, uploadLimitMb: number): ErrorReques
     if (typeof bodyParser.status === 'number' && bodyParser.status >= 400 && bodyParser.status < 500) {
       return sent(bodyParser.status, body('bad_request', (err as Error).message || 'Bad request.'));
     }
+    if (/^22/.test(databaseErrorCode(err) ?? '')) {
+      // SQLSTATE class 22 "data exception": the request carried a value the database refuses (e.g. NUL in text).
+      logger.warn({ err, method: req.method, path: req.path }, 'value refused by the database');
+      return sent(400, body('unstorable_value', 'The request holds a value that cannot be stored (for example a NUL character).'));
+    }
     logger.error({ err, method: req.method, path: req.path }, 'unhandled error');
     return sent(500, body('internal', 'Something went wrong on the server. The error was logged.'));
   };
+}
+
+/** The SQLSTATE of a database error, also when Drizzle wrapped it (DrizzleQueryError keeps it as `cause`). */
+function databaseErrorCode(err: unknown): string | undefined {
+  for (let e = err, i = 0; e && typeof e === 'object' && i < 3; e = (e as { cause?: unknown }).cause, i++) {
+    const code = (e as { code?: unknown }).code;
+    if (typeof code === 'string' && /^[0-9A-Z]{5}$/.test(code)) return code;
+  }
+  return undefined;
 }

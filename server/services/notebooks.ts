@@ -16,6 +16,7 @@ import { findUsersByEmails } from '../db/repositories/users.js';
 import { findRole } from '../db/repositories/workspaces.js';
 import { AppError, notFound } from '../errors.js';
 import { assertNotebook, assertWorkspace, effectiveNotebookRole, notebookAllows, type NotebookAction } from './policy.js';
+import { assertStorableJson } from './storable-json.js';
 
 export async function listNotebooks(db: Db, userId: string, workspaceId?: string): Promise<NotebookMeta[]> {
   return (await repo.listNotebooksForUser(db, userId, workspaceId)).map(toMeta);
@@ -23,6 +24,7 @@ export async function listNotebooks(db: Db, userId: string, workspaceId?: string
 
 export async function createNotebook(db: Db, userId: string, body: CreateNotebookBody): Promise<NotebookResponse> {
   assertWorkspace(await findRole(db, body.workspaceId, userId), 'create');
+  assertStorableJson(body.document, 'document');
   const id = await repo.insertNotebook(db, {
     workspaceId: body.workspaceId,
     ownerId: userId,
@@ -43,6 +45,8 @@ export async function getNotebook(db: Db, userId: string, notebookId: string): P
 /** Saves a new revision; a stale base answers 409 and writes nothing. */
 export async function saveNotebook(db: Db, userId: string, notebookId: string, body: SaveNotebookBody): Promise<NotebookResponse> {
   await reach(db, userId, notebookId, 'edit');
+  assertStorableJson(body.document, 'document');
+  assertStorableJson(body.summary ?? '', 'summary');
   await append(db, userId, notebookId, body.baseRevision, body.document, body.summary ?? '');
   return getNotebook(db, userId, notebookId);
 }
@@ -67,6 +71,7 @@ export async function getRevision(db: Db, userId: string, notebookId: string, re
 /** Copies an old revision into a new one on top of the current revision. */
 export async function restoreRevision(db: Db, userId: string, notebookId: string, revision: number, summary?: string): Promise<NotebookResponse> {
   const nb = await reach(db, userId, notebookId, 'edit');
+  assertStorableJson(summary ?? '', 'summary');
   const rev = await repo.findRevisionDocument(db, notebookId, revision);
   if (!rev) throw notFound(`Revision ${revision}`);
   await append(db, userId, notebookId, nb.currentRevision, readDocument(rev.document), summary ?? `Restored revision ${revision}`);
@@ -125,7 +130,9 @@ function toMeta(nb: repo.NotebookAccessRecord): NotebookMeta {
     role: effectiveNotebookRole(reachInfo),
     permissions: { edit: notebookAllows(reachInfo, 'edit'), manage: notebookAllows(reachInfo, 'manage') },
     revision: nb.currentRevision,
-    forkedFrom: nb.forkedFromNotebookId ? { notebookId: nb.forkedFromNotebookId, revision: nb.forkedFromRevision ?? 1 } : null,
+    forkedFrom: nb.forkedFromNotebookId
+      ? { notebookId: nb.forkedFromNotebookId, id: nb.forkedFromNotebookId, title: nb.forkedFromTitle, revision: nb.forkedFromRevision ?? 1 }
+      : null,
     createdAt: nb.createdAt.toISOString(),
     updatedAt: nb.updatedAt.toISOString(),
   };
