@@ -14,9 +14,12 @@ export const notebookPermissionsSchema = z.object({
 });
 export type NotebookPermissions = z.infer<typeof notebookPermissionsSchema>;
 
-/** Where a fork came from; null for an original. */
+/**
+ * Where a fork came from; null for an original. `id` repeats `notebookId`; `title` is
+ * the origin's current title, null once the origin was deleted.
+ */
 export const forkOriginSchema = z
-  .object({ notebookId: idSchema, revision: z.number().int().positive() })
+  .object({ notebookId: idSchema, id: idSchema, title: z.string().nullable(), revision: z.number().int().positive() })
   .nullable();
 
 /** Notebook metadata as lists and detail views show it. */

@@ -15,6 +15,8 @@ export interface NotebookRecord {
   currentRevision: number;
   forkedFromNotebookId: string | null;
   forkedFromRevision: number | null;
+  /** Current title of the origin of a fork (null when it was deleted or this is no fork). */
+  forkedFromTitle: string | null;
   createdAt: Date;
   updatedAt: Date;
 }
@@ -41,6 +43,7 @@ export interface GrantRecord {
 }
 
 const owner = alias(user, 'owner_user');
+const origin = alias(notebook, 'origin_notebook');
 const notebookColumns = {
   id: notebook.id,
   title: notebook.title,
@@ -51,6 +54,7 @@ const notebookColumns = {
   currentRevision: notebook.currentRevision,
   forkedFromNotebookId: notebook.forkedFromNotebookId,
   forkedFromRevision: notebook.forkedFromRevision,
+  forkedFromTitle: origin.title,
   createdAt: notebook.createdAt,
   updatedAt: notebook.updatedAt,
 };
@@ -62,6 +66,7 @@ function selectWithAccess(db: Db, userId: string) {
     .from(notebook)
     .innerJoin(workspace, eq(workspace.id, notebook.workspaceId))
     .innerJoin(owner, eq(owner.id, notebook.ownerId))
+    .leftJoin(origin, eq(origin.id, notebook.forkedFromNotebookId))
     .leftJoin(workspaceMember, and(eq(workspaceMember.workspaceId, notebook.workspaceId), eq(workspaceMember.userId, userId)))
     .leftJoin(notebookAccess, and(eq(notebookAccess.notebookId, notebook.id), eq(notebookAccess.userId, userId)));
 }
