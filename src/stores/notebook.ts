@@ -1,5 +1,6 @@
+import '@/utils/zodWithoutEval';
 import { defineStore } from 'pinia';
-import { computed, ref, shallowRef } from 'vue';
+import { computed, ref, shallowRef, toRaw } from 'vue';
 import type { NotebookMeta, NotebookResponse } from '../../shared/api/notebooks.js';
 import type { ChartPreset, TransformOp } from '../../shared/notebook/cell-config.js';
 import type { CellOutput } from '../../shared/notebook/cell-output.js';
@@ -66,7 +67,8 @@ export const useNotebookStore = defineStore('notebook', () => {
   /** Starts editing a notebook as the server sent it; history and run state start over. */
   function load(response: NotebookResponse): void {
     meta.value = response.notebook;
-    document.value = response.document;
+    // A plain copy: the query layer hands out reactive objects, which cannot cross to the worker.
+    document.value = JSON.parse(JSON.stringify(toRaw(response.document))) as NotebookDocument;
     undoStack.value = [];
     redoStack.value = [];
     lastEdit = null;
