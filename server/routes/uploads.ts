@@ -1,8 +1,9 @@
-import { Router } from 'express';
+import { Router, type RequestHandler } from 'express';
 import multer from 'multer';
 import { idParamsSchema } from '../../shared/api/common.js';
 import { uploadFieldsSchema } from '../../shared/api/uploads.js';
 import type { AppContext } from '../context.js';
+import { AppError } from '../errors.js';
 import { userIdOf } from '../middleware/session.js';
 import * as uploads from '../services/uploads.js';
 
@@ -16,8 +17,16 @@ export function uploadRoutes(ctx: AppContext): Router {
     storage: multer.memoryStorage(),
     limits: { fileSize: ctx.config.uploadLimitMb * 1024 * 1024, files: MAX_FILES_PER_REQUEST, fields: 10 },
   }).array('file', MAX_FILES_PER_REQUEST);
+  // Other errors of the multipart parser (busboy's "Unexpected end of form", "Malformed part header") are the body's fault.
+  const parseMultipart: RequestHandler = (req, res, next) =>
+    receive(req, res, (err?: unknown) => {
+      if (err && !(err instanceof multer.MulterError)) {
+        return next(new AppError(400, 'bad_upload', `Upload refused: the multipart body is malformed (${err instanceof Error ? err.message : String(err)}).`));
+      }
+      next(err);
+    });
 
-  router.post('/', receive, async (req, res) => {
+  router.post('/', parseMultipart, async (req, res) => {
     const { workspaceId } = uploadFieldsSchema.parse(req.body ?? {});
     const files = ((req.files as Express.Multer.File[] | undefined) ?? []).map((f) => ({
       // multer decodes the part's filename as latin1; browsers send UTF-8.
