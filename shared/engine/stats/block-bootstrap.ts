@@ -1,29 +1,9 @@
-import { createRandom } from '../../synthetic/random.js';
+import { drawCircularBlocks, percentileInterval, planBootstrap, type BlockBootstrapOptions, type BootstrapCi } from './circular-blocks.js';
 import { optimalBlockLength } from './optimal-block-length.js';
 import { pairedIndices } from './paired.js';
+import { sumRatioBootstrapCi } from './sum-ratio-bootstrap.js';
 
-/** Options of {@link blockBootstrapCi}. */
-export interface BlockBootstrapOptions {
-  /** Samples per block; default ceil(n^(1/3)). Pass optimalBlockLength(series) for a data-driven choice. */
-  blockLength?: number;
-  /** Bootstrap replicates; default 2000. */
-  replicates?: number;
-  /** Seed of the generator; default 1, so a result is reproducible unless asked otherwise. */
-  seed?: number;
-  /** Confidence level; default 0.95. */
-  level?: number;
-}
-
-/** A statistic and its bootstrap percentile interval. */
-export interface BootstrapCi {
-  /** The statistic on the original sample order. */
-  estimate: number;
-  low: number;
-  high: number;
-  blockLength: number;
-  /** Replicates that gave a finite statistic (the interval is built from these). */
-  replicates: number;
-}
+export type { BlockBootstrapOptions, BootstrapCi } from './circular-blocks.js';
 
 /**
  * Circular block bootstrap (Politis & Romano 1992) percentile interval for a statistic
@@ -45,58 +25,37 @@ export function blockBootstrapCi(
   statistic: (indices: Int32Array) => number,
   options: BlockBootstrapOptions = {},
 ): BootstrapCi {
-  const requested = options.blockLength ?? Math.ceil(Math.cbrt(n));
-  const blockLength = Math.max(1, Math.min(n, Math.round(requested)));
-  const replicates = Math.max(1, Math.round(options.replicates ?? 2000));
-  const level = options.level ?? 0.95;
-  const random = createRandom(options.seed ?? 1);
-
+  const { blockLength, replicates, level, random } = planBootstrap(n, options);
   const indices = new Int32Array(n);
   for (let i = 0; i < n; i++) indices[i] = i;
   const estimate = n > 0 ? statistic(indices) : NaN;
   if (n === 0) return { estimate, low: NaN, high: NaN, blockLength, replicates: 0 };
 
+  let pos = 0;
+  const fill = (start: number, length: number): void => {
+    let j = start;
+    for (const end = pos + length; pos < end; ) {
+      indices[pos++] = j;
+      j = j + 1 === n ? 0 : j + 1;
+    }
+  };
   const values = new Float64Array(replicates);
   let valid = 0;
   for (let r = 0; r < replicates; r++) {
-    let pos = 0;
-    while (pos < n) {
-      let j = random.int(0, n - 1);
-      const end = Math.min(n, pos + blockLength);
-      while (pos < end) {
-        indices[pos++] = j;
-        j = j + 1 === n ? 0 : j + 1;
-      }
-    }
+    pos = 0;
+    drawCircularBlocks(n, blockLength, random, fill);
     const v = statistic(indices);
     if (Number.isFinite(v)) values[valid++] = v;
   }
-  const sorted = values.subarray(0, valid).sort();
-  return {
-    estimate,
-    low: quantileSorted(sorted, (1 - level) / 2),
-    high: quantileSorted(sorted, (1 + level) / 2),
-    blockLength,
-    replicates: valid,
-  };
+  return { estimate, ...percentileInterval(values, valid, level), blockLength, replicates: valid };
 }
-
-/** Type-7 quantile of ascending values. */
-function quantileSorted(sorted: Float64Array, p: number): number {
-  const n = sorted.length;
-  if (n === 0) return NaN;
-  const h = (n - 1) * p;
-  const lo = Math.floor(h);
-  const hi = Math.min(n - 1, lo + 1);
-  return sorted[lo]! + (h - lo) * (sorted[hi]! - sorted[lo]!);
-}
-
 
 /**
  * Ratio of means test/reference (1.02 = the device reads 2% high) over the pairs where
  * both are finite (and the mask is set), with a circular block bootstrap interval. The
  * default block length comes from {@link optimalBlockLength} of the ratio's influence
- * series test - ratio * reference. O(replicates x n).
+ * series test - ratio * reference. A ratio of sums, so the replicates run on block sums
+ * ({@link sumRatioBootstrapCi}): O(n + replicates x n / blockLength).
  *
  * @throws EngineError `length_mismatch`
  * @example
@@ -112,33 +71,29 @@ export function ratioCi(
   const n = pairs.length;
   const t = new Float64Array(n);
   const r = new Float64Array(n);
+  let st = 0;
+  let sr = 0;
   for (let k = 0; k < n; k++) {
     t[k] = test[pairs[k]!]!;
     r[k] = reference[pairs[k]!]!;
+    st += t[k]!;
+    sr += r[k]!;
   }
-  const statistic = (ix: Int32Array): number => {
-    let st = 0;
-    let sr = 0;
-    for (let k = 0; k < ix.length; k++) {
-      st += t[ix[k]!]!;
-      sr += r[ix[k]!]!;
-    }
-    return st / sr;
-  };
   let blockLength = options.blockLength;
   if (blockLength === undefined && n > 0) {
-    const ratio = statistic(identity(n));
+    const ratio = st / sr;
     const influence = new Float64Array(n);
     for (let k = 0; k < n; k++) influence[k] = t[k]! - ratio * r[k]!;
     blockLength = optimalBlockLength(influence);
   }
-  return blockBootstrapCi(n, statistic, { ...options, blockLength });
+  return sumRatioBootstrapCi(t, r, { ...options, blockLength });
 }
 
 /**
  * Gain of the device through the origin (slope of test on reference with no offset,
  * sum(t r)/sum(r^2)) with a circular block bootstrap interval; block length by default
- * from {@link optimalBlockLength} of the influence series r (t - gain r).
+ * from {@link optimalBlockLength} of the influence series r (t - gain r). A ratio of
+ * sums, resampled on block sums ({@link sumRatioBootstrapCi}).
  *
  * @throws EngineError `length_mismatch`
  * @example
@@ -152,34 +107,27 @@ export function gainCi(
 ): BootstrapCi {
   const pairs = pairedIndices(test, reference, mask);
   const n = pairs.length;
-  const t = new Float64Array(n);
-  const r = new Float64Array(n);
+  const tr = new Float64Array(n);
+  const rr = new Float64Array(n);
+  let str = 0;
+  let srr = 0;
   for (let k = 0; k < n; k++) {
-    t[k] = test[pairs[k]!]!;
-    r[k] = reference[pairs[k]!]!;
+    const tk = test[pairs[k]!]!;
+    const rk = reference[pairs[k]!]!;
+    tr[k] = tk * rk;
+    rr[k] = rk * rk;
+    str += tr[k]!;
+    srr += rr[k]!;
   }
-  const statistic = (ix: Int32Array): number => {
-    let str = 0;
-    let srr = 0;
-    for (let k = 0; k < ix.length; k++) {
-      const rk = r[ix[k]!]!;
-      str += t[ix[k]!]! * rk;
-      srr += rk * rk;
-    }
-    return str / srr;
-  };
   let blockLength = options.blockLength;
   if (blockLength === undefined && n > 0) {
-    const gain = statistic(identity(n));
+    const gain = str / srr;
     const influence = new Float64Array(n);
-    for (let k = 0; k < n; k++) influence[k] = r[k]! * (t[k]! - gain * r[k]!);
+    for (let k = 0; k < n; k++) {
+      const rk = reference[pairs[k]!]!;
+      influence[k] = rk * (test[pairs[k]!]! - gain * rk);
+    }
     blockLength = optimalBlockLength(influence);
   }
-  return blockBootstrapCi(n, statistic, { ...options, blockLength });
-}
-
-function identity(n: number): Int32Array {
-  const ix = new Int32Array(n);
-  for (let i = 0; i < n; i++) ix[i] = i;
-  return ix;
+  return sumRatioBootstrapCi(tr, rr, { ...options, blockLength });
 }

@@ -16,5 +16,7 @@ export { rmse } from './rmse.js';
 export { driftFit, type DriftFit } from './drift-fit.js';
 export { optimalBlockLength } from './optimal-block-length.js';
 export { blockBootstrapCi, ratioCi, gainCi, type BlockBootstrapOptions, type BootstrapCi } from './block-bootstrap.js';
+export { sumRatioBootstrapCi } from './sum-ratio-bootstrap.js';
+export { drawCircularBlocks, percentileInterval, planBootstrap, type BootstrapPlan } from './circular-blocks.js';
 export { percentDifference, meanOfRatios, combinedTolerance, worstCaseTolerance, withinTolerance } from './percent-difference.js';
 export { legGainFromTotal, totalFromLegGain } from './leg-gain.js';
