@@ -10,9 +10,13 @@ import type { AppContext, AppDeps } from './context.js';
 import { errorHandler, notFoundHandler } from './middleware/error-handler.js';
 import { ENGINE_WORKER_CSP, isEngineWorkerAsset, originGuard, securityHeaders } from './middleware/security.js';
 import { requireSession } from './middleware/session.js';
+import { exportRoutes } from './routes/exports.js';
 import { healthRoutes } from './routes/health.js';
 import { notebookRoutes } from './routes/notebooks.js';
 import { outboxRoutes } from './routes/outbox.js';
+import { publicationRoutes } from './routes/publications.js';
+import { runRoutes } from './routes/runs.js';
+import { shareRoutes } from './routes/shares.js';
 import { uploadRoutes } from './routes/uploads.js';
 import { workspaceRoutes } from './routes/workspaces.js';
 import { createPersonalWorkspace } from './services/workspaces.js';
@@ -64,6 +68,8 @@ export function createApp(deps: AppDeps): AppHandle {
   app.use('/api', originGuard(deps.config.trustedOrigins), express.json({ limit: JSON_LIMIT }));
   app.use('/api', healthRoutes(ctx));
   const signedIn = requireSession(auth);
+  // Working together: these routers check the session per route, as some of their routes are public.
+  app.use('/api', exportRoutes(ctx), runRoutes(ctx), shareRoutes(ctx), publicationRoutes(ctx));
   app.use('/api/workspaces', signedIn, workspaceRoutes(ctx));
   app.use('/api/notebooks', signedIn, notebookRoutes(ctx));
   app.use('/api/uploads', signedIn, uploadRoutes(ctx));
@@ -92,6 +98,9 @@ function mountAuth(app: Express, ctx: AppContext): void {
         res.status(429).json({ error: { code: 'rate_limited', message: 'Too many attempts from your address. Wait a few minutes and try again.' } });
       },
     });
+  // better-auth checks Origin only when a cookie comes along; a cross-site sign-up or sign-in
+  // without one would still log the visitor into an account the other site chose.
+  app.use('/api/auth', originGuard(ctx.config.trustedOrigins));
   app.post('/api/auth/sign-in/email', limited(ctx.config.signInLimit));
   app.post(['/api/auth/sign-up/email', '/api/auth/request-password-reset'], limited(ctx.config.signInLimit));
   const handler = toNodeHandler(ctx.auth);

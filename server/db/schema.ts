@@ -213,3 +213,57 @@ export const mailMessage = pgTable('mail_message', {
   html: text('html'),
   createdAt: createdAt(),
 });
+
+/**
+ * A recipe run: one notebook revision computed on the server on chosen uploads.
+ * `snapshot` holds the reduced outputs (shared/api/snapshots.ts), never raw samples.
+ */
+export const notebookRun = pgTable(
+  'notebook_run',
+  {
+    id: text('id').primaryKey().$defaultFn(newId),
+    notebookId: text('notebook_id')
+      .notNull()
+      .references(() => notebook.id, { onDelete: 'cascade' }),
+    revision: integer('revision').notNull(),
+    /** [{ slot, uploadId, fileName }] in slot order. */
+    bindings: jsonb('bindings').notNull(),
+    label: text('label'),
+    snapshot: jsonb('snapshot').notNull(),
+    cellCount: integer('cell_count').notNull(),
+    failedCells: integer('failed_cells').notNull(),
+    durationMs: integer('duration_ms').notNull(),
+    createdBy: text('created_by').references(() => user.id, { onDelete: 'set null' }),
+    createdAt: createdAt(),
+  },
+  (t) => [index('notebook_run_notebook_idx').on(t.notebookId, t.createdAt)],
+);
+
+/** A read-only link to a notebook. Revoking deletes the row, so the token stops working at once. */
+export const shareLink = pgTable(
+  'share_link',
+  {
+    token: text('token').primaryKey(),
+    notebookId: text('notebook_id')
+      .notNull()
+      .references(() => notebook.id, { onDelete: 'cascade' }),
+    /** Only signed-in members of the notebook's workspace (or grant holders) may open it. */
+    membersOnly: boolean('members_only').notNull().default(false),
+    createdBy: text('created_by').references(() => user.id, { onDelete: 'set null' }),
+    createdAt: createdAt(),
+  },
+  (t) => [index('share_link_notebook_idx').on(t.notebookId)],
+);
+
+/** A notebook published for signed-out readers: at most one per notebook, replaced on republish. */
+export const publication = pgTable('publication', {
+  notebookId: text('notebook_id')
+    .primaryKey()
+    .references(() => notebook.id, { onDelete: 'cascade' }),
+  slug: text('slug').notNull().unique(),
+  revision: integer('revision').notNull(),
+  snapshot: jsonb('snapshot').notNull(),
+  allowDownloads: boolean('allow_downloads').notNull().default(false),
+  publishedBy: text('published_by').references(() => user.id, { onDelete: 'set null' }),
+  publishedAt: timestamp('published_at', { withTimezone: true }).notNull().defaultNow(),
+});

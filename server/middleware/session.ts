@@ -19,3 +19,18 @@ export function userIdOf(res: Response): string {
   if (typeof id !== 'string') throw unauthenticated();
   return id;
 }
+
+/** Sets res.locals.userId when a valid session comes with the request; lets everyone through. */
+export function optionalSession(auth: Auth): RequestHandler {
+  return async (req, res, next) => {
+    const session = await auth.api.getSession({ headers: fromNodeHeaders(req.headers) });
+    if (session) res.locals.userId = session.user.id;
+    next();
+  };
+}
+
+/** The signed-in user's id, or null (after {@link optionalSession}). */
+export function optionalUserIdOf(res: Response): string | null {
+  const id: unknown = res.locals.userId;
+  return typeof id === 'string' ? id : null;
+}

@@ -25,6 +25,25 @@ import { AppError, forbidden, notFound } from '../errors.js';
  * manages; `editor` edits; `viewer` reads. The effective right is the larger of the
  * workspace right and the grant.
  *
+ * Working together (runs, share links, publishing, forks, files out and in), by the
+ * caller's effective notebook right from the two tables above:
+ *
+ * | Action                                         | edit | read only | cannot read        |
+ * |------------------------------------------------|------|-----------|--------------------|
+ * | list runs, read a run, compare runs, CSV       | yes  | yes       | 404                |
+ * | start a run (POST .../runs)                    | yes  | 403       | 404                |
+ * | make, list, revoke share links                 | yes  | 403       | 404                |
+ * | publish, republish, unpublish                  | yes  | 403       | 404                |
+ * | see the publication's settings                 | yes  | yes       | 404                |
+ * | export (recordings: those the caller may read) | yes  | yes       | 404                |
+ * | fork (into a workspace where they may create)  | yes  | yes       | 404                |
+ *
+ * Without any right on the notebook: a share link opens it read-only for anyone who
+ * holds the token (members-only links: signed-out 401, signed-in non-members 404);
+ * a signed-in token holder may fork it. A published page is public; its recordings
+ * download only when the publisher allowed it. Import needs admin/analyst in the
+ * target workspace, as creating a notebook does.
+ *
  * Anything the caller cannot even read answers 404, never 403, so its existence does
  * not leak. 403 means "you can see it but not do this". 401 means "not signed in".
  */
@@ -89,4 +108,20 @@ export function assertWorkspace(role: WorkspaceRole | undefined, action: Workspa
 /** Outbox: only someone who administers at least one workspace. */
 export function assertOutboxReader(adminOfAny: boolean): void {
   if (!adminOfAny) throw new AppError(403, 'forbidden', 'Only workspace admins may read the outbox.');
+}
+
+/**
+ * Opens a share link for a caller: a live link opens for anyone, a members-only link
+ * only for a signed-in caller who could read the notebook anyway.
+ */
+export function assertShareOpens(share: { membersOnly: boolean } | undefined, caller: { signedIn: boolean; reach: NotebookReach | undefined }): void {
+  if (!share) throw notFound('Share link');
+  if (!share.membersOnly) return;
+  if (!caller.signedIn) throw new AppError(401, 'unauthenticated', 'This link is for members of the workspace only. Sign in to open it.');
+  if (!caller.reach || !notebookAllows(caller.reach, 'read')) throw notFound('Share link');
+}
+
+/** A published recording downloads only when the publisher allowed it and it is one of the publication's inputs. */
+export function assertPublishedDownload(allowDownloads: boolean, isInput: boolean): void {
+  if (!allowDownloads || !isInput) throw notFound('File');
 }

@@ -5,6 +5,7 @@ import type { Db } from '../db/client.js';
 import { countUsers, findUserByEmail } from '../db/repositories/users.js';
 import { insertMember } from '../db/repositories/workspaces.js';
 import type { Logger } from '../logger.js';
+import { publishDemoNotebook } from './publications.js';
 import { createSharedWorkspace } from './workspaces.js';
 
 /** The one password of every demo account (printed at start; demo only). */
@@ -35,7 +36,7 @@ export interface DemoSeed {
  * rides, demo notebooks) push a step here; each receives the ids of what the seed made.
  */
 export type DemoStep = (services: DemoServices, seed: DemoSeed) => Promise<void>;
-export const demoSteps: DemoStep[] = [seedDemoLab];
+export const demoSteps: DemoStep[] = [seedDemoLab, publishDemoNotebook];
 
 /**
  * Creates the demo lab with an admin, an analyst and a viewer, on an empty database

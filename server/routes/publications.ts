@@ -1,0 +1,42 @@
+import { Router } from 'express';
+import { idParamsSchema } from '../../shared/api/common.js';
+import { publicationSlugParamsSchema, publishBodySchema, publishedFileParamsSchema } from '../../shared/api/publications.js';
+import type { AppContext } from '../context.js';
+import { requireSession, userIdOf } from '../middleware/session.js';
+import * as publications from '../services/publications.js';
+
+/** Publishing (editors) and the public reader's routes under /api/published. */
+export function publicationRoutes(ctx: AppContext): Router {
+  const router = Router();
+  const db = ctx.database.db;
+  const signedIn = requireSession(ctx.auth);
+  const baseUrl = ctx.config.baseUrl;
+  router.post('/notebooks/:id/publication', signedIn, async (req, res) => {
+    const { id } = idParamsSchema.parse(req.params);
+    res.json(await publications.publish(db, userIdOf(res), id, publishBodySchema.parse(req.body ?? {}), baseUrl));
+  });
+  router.get('/notebooks/:id/publication', signedIn, async (req, res) => {
+    const { id } = idParamsSchema.parse(req.params);
+    res.json(await publications.getPublication(db, userIdOf(res), id, baseUrl));
+  });
+  router.delete('/notebooks/:id/publication', signedIn, async (req, res) => {
+    const { id } = idParamsSchema.parse(req.params);
+    await publications.unpublish(db, userIdOf(res), id);
+    res.status(204).end();
+  });
+  router.get('/published', async (_req, res) => {
+    res.json(await publications.listPublished(db));
+  });
+  router.get('/published/:slug', async (req, res) => {
+    const { slug } = publicationSlugParamsSchema.parse(req.params);
+    res.json(await publications.readPublished(db, slug));
+  });
+  router.get('/published/:slug/files/:uploadId', async (req, res) => {
+    const { slug, uploadId } = publishedFileParamsSchema.parse(req.params);
+    const { fileName, bytes } = await publications.readPublishedFile(db, slug, uploadId);
+    res.setHeader('Content-Type', 'application/octet-stream');
+    res.setHeader('Content-Disposition', `attachment; filename*=UTF-8''${encodeURIComponent(fileName)}`);
+    res.send(Buffer.from(bytes.buffer, bytes.byteOffset, bytes.byteLength));
+  });
+  return router;
+}

@@ -1,0 +1,142 @@
+import { randomBytes } from 'node:crypto';
+import type { PublishBody, Publication, PublishedListResponse, PublishedNotebookResponse } from '../../shared/api/publications.js';
+import type { Snapshot } from '../../shared/api/snapshots.js';
+import { DEMO_PUBLISHED_NOTEBOOK } from '../../shared/demo/sample-files.js';
+import type { Db } from '../db/client.js';
+import { findNotebookForUser, listNotebooksForUser } from '../db/repositories/notebooks.js';
+import * as repo from '../db/repositories/publications.js';
+import { findUploadBySha, readUploadBytes } from '../db/repositories/uploads.js';
+import { notFound } from '../errors.js';
+import { assertNotebook, assertPublishedDownload } from './policy.js';
+import type { DemoSeed, DemoServices } from './seed.js';
+import { computeSnapshot, resolveBindings, revisionDocument } from './snapshot.js';
+
+/**
+ * Publishes the notebook's current revision: computes its snapshot on the server on
+ * the uploads its slots bind (so the numbers come from stored inputs, not from a
+ * browser), then stores or replaces the publication. The slug stays the same.
+ */
+export async function publish(db: Db, userId: string, notebookId: string, body: PublishBody, baseUrl: string): Promise<Publication> {
+  const nb = await findNotebookForUser(db, notebookId, userId);
+  assertNotebook(nb, 'edit');
+  const document = await revisionDocument(db, notebookId, nb!.currentRevision);
+  const bindings = await resolveBindings(db, document, {}, userId);
+  const { snapshot } = await computeSnapshot(db, document, nb!.currentRevision, bindings);
+  const existing = await repo.findPublicationOfNotebook(db, notebookId);
+  await repo.upsertPublication(db, {
+    notebookId,
+    slug: existing?.slug ?? newSlug(nb!.title),
+    revision: nb!.currentRevision,
+    snapshot,
+    allowDownloads: body.allowDownloads,
+    publishedBy: userId,
+  });
+  return toPublication((await repo.findPublicationOfNotebook(db, notebookId))!, baseUrl);
+}
+
+export async function getPublication(db: Db, userId: string, notebookId: string, baseUrl: string): Promise<Publication> {
+  assertNotebook(await findNotebookForUser(db, notebookId, userId), 'read');
+  const found = await repo.findPublicationOfNotebook(db, notebookId);
+  if (!found) throw notFound('Publication');
+  return toPublication(found, baseUrl);
+}
+
+export async function unpublish(db: Db, userId: string, notebookId: string): Promise<void> {
+  assertNotebook(await findNotebookForUser(db, notebookId, userId), 'edit');
+  if (!(await repo.deletePublication(db, notebookId))) throw notFound('Publication');
+}
+
+/** What a signed-out reader gets: no upload ids or bytes unless downloads are allowed. */
+export async function readPublished(db: Db, slug: string): Promise<PublishedNotebookResponse> {
+  const found = await repo.findPublicationBySlug(db, slug);
+  if (!found) throw notFound('Publication');
+  const snapshot = found.snapshot as Snapshot;
+  const document = await revisionDocument(db, found.notebookId, found.revision);
+  return {
+    slug: found.slug,
+    title: found.title,
+    description: document.description,
+    publishedBy: found.publishedByName === null ? null : { name: found.publishedByName },
+    publishedAt: found.publishedAt.toISOString(),
+    revision: found.revision,
+    snapshot,
+    allowDownloads: found.allowDownloads,
+    files: found.allowDownloads ? await publishedFiles(db, snapshot) : null,
+  };
+}
+
+export async function listPublished(db: Db): Promise<PublishedListResponse> {
+  return {
+    publications: (await repo.listPublications(db)).map((p) => ({
+      slug: p.slug,
+      title: p.title,
+      publishedBy: p.publishedByName === null ? null : { name: p.publishedByName },
+      publishedAt: p.publishedAt.toISOString(),
+      revision: p.revision,
+    })),
+  };
+}
+
+/** A recording of a publication that allows downloads. */
+export async function readPublishedFile(db: Db, slug: string, uploadId: string): Promise<{ fileName: string; bytes: Uint8Array }> {
+  const found = await repo.findPublicationBySlug(db, slug);
+  if (!found) throw notFound('Publication');
+  const files = found.allowDownloads ? await publishedFiles(db, found.snapshot as Snapshot) : [];
+  const file = files.find((f) => f.uploadId === uploadId);
+  assertPublishedDownload(found.allowDownloads, file !== undefined);
+  const bytes = await readUploadBytes(db, uploadId);
+  if (!bytes) throw notFound('File');
+  return { fileName: file!.fileName, bytes };
+}
+
+/** The snapshot names its inputs by content hash; the stored upload with those bytes is the file. */
+async function publishedFiles(db: Db, snapshot: Snapshot): Promise<NonNullable<PublishedNotebookResponse['files']>> {
+  const files: NonNullable<PublishedNotebookResponse['files']> = [];
+  for (const input of snapshot.inputs) {
+    const upload = await findUploadBySha(db, input.sha256);
+    if (upload) files.push({ uploadId: upload.id, slot: input.slot, fileName: input.fileName, format: input.format, size: input.size });
+  }
+  return files;
+}
+
+function newSlug(title: string): string {
+  const words = title
+    .normalize('NFKD')
+    .replace(/[\u0300-\u036f]/g, '')
+    .toLowerCase()
+    .replace(/[^a-z0-9]+/g, '-')
+    .replace(/^-+|-+$/g, '')
+    .slice(0, 60)
+    .replace(/-+$/, '');
+  // A random tail: titles repeat, and a slug should not be guessable from a title alone.
+  const tail = randomBytes(5).toString('hex');
+  return words ? `${words}-${tail}` : tail;
+}
+
+function toPublication(p: repo.PublicationRecord, baseUrl: string): Publication {
+  return {
+    slug: p.slug,
+    url: `${baseUrl}/published/${p.slug}`,
+    notebookId: p.notebookId,
+    title: p.title,
+    revision: p.revision,
+    publishedAt: p.publishedAt.toISOString(),
+    publishedBy: p.publishedBy ? { id: p.publishedBy, name: p.publishedByName ?? '' } : null,
+    allowDownloads: p.allowDownloads,
+  };
+}
+
+/**
+ * Demo seed step: publishes the demo notebook named by DEMO_PUBLISHED_NOTEBOOK as the
+ * lab's analyst, so a signed-out visitor has a page to read at first start.
+ */
+export async function publishDemoNotebook(services: DemoServices, seed: DemoSeed): Promise<void> {
+  const notebooks = await listNotebooksForUser(services.db, seed.users.analyst, seed.workspaceId);
+  const target = notebooks.find((n) => n.title === DEMO_PUBLISHED_NOTEBOOK.title);
+  if (!target) {
+    services.logger.warn({ title: DEMO_PUBLISHED_NOTEBOOK.title }, 'demo notebook to publish not found');
+    return;
+  }
+  const published = await publish(services.db, seed.users.analyst, target.id, { allowDownloads: true }, '');
+  services.logger.info({ slug: published.slug }, 'demo notebook published');
+}
