@@ -40,7 +40,6 @@ const looksLikeCsv = (fileName: string, bytes: Uint8Array) => /\.(csv|txt|tsv)$/
  */
 export function useNotebookInputs(engine: EngineClient, onBound: () => void) {
   const store = useNotebookStore();
-  const uploader = useUploadRecordings();
   const slots = reactive<Record<string, SlotInput>>({});
   // Bytes by upload id: a file uploaded here, or fetched once, is not fetched again.
   const bytesByUpload = new Map<string, Bytes>();
@@ -74,6 +73,8 @@ export function useNotebookInputs(engine: EngineClient, onBound: () => void) {
       return;
     }
     const previous = slots[slot.name];
+    // Whatever the worker held under this name (another notebook's file, the old file) must not be computed on.
+    await engine.bindSlots({ [slot.name]: null });
     slots[slot.name] = { ...previous, state: previous?.state === 'uploading' ? 'uploading' : 'loading', uploadId: slot.uploadId, warnings: [] };
     try {
       const { bytes, fileName } = await bytesOf(slot.uploadId);
@@ -115,6 +116,8 @@ export function useNotebookInputs(engine: EngineClient, onBound: () => void) {
   async function upload(slotName: string, file: File): Promise<void> {
     const before = slots[slotName];
     slots[slotName] = { state: 'uploading', uploadId: before?.uploadId ?? null, fileName: file.name, progress: 0, warnings: [] };
+    // One uploader per file: a shared one would cancel the first upload when a second starts.
+    const uploader = useUploadRecordings();
     const stop = watch(uploader.progress, (p) => {
       const s = slots[slotName];
       if (s?.state === 'uploading') s.progress = p;
@@ -146,5 +149,5 @@ export function useNotebookInputs(engine: EngineClient, onBound: () => void) {
     store.updateSlot(slotName, { csvMapping: mapping as Record<string, unknown> }, 'map CSV columns');
   }
 
-  return { slots, known, upload, choose, setMapping, uploadProgress: uploader.progress };
+  return { slots, known, upload, choose, setMapping };
 }
