@@ -7,6 +7,7 @@ export const RouteName = {
   library: 'library',
   notebook: 'notebook',
   shared: 'shared',
+  published: 'published',
   team: 'team',
   outbox: 'outbox',
   notFound: 'not-found',

@@ -43,10 +43,20 @@ export const routes: RouteRecordRaw[] = [
   },
   {
     path: '/s/:token',
+    // The server's share links use the long form.
+    alias: '/shared/:token',
     name: RouteName.shared,
-    component: () => import('@/views/SharedView.vue'),
+    component: () => import('@/views/SharedNotebookView.vue'),
     props: true,
-    meta: { access: 'public', title: 'Shared finding' },
+    meta: { access: 'public', title: 'Shared notebook' },
+  },
+  {
+    path: '/p/:slug',
+    alias: '/published/:slug',
+    name: RouteName.published,
+    component: () => import('@/views/PublishedView.vue'),
+    props: true,
+    meta: { access: 'public', title: 'Published finding' },
   },
   {
     path: '/team',
