@@ -43,15 +43,19 @@ export function isEngineWorkerAsset(fileName: string): boolean {
 /**
  * Refuses state-changing API calls whose Origin header names another site. Cookies
  * are SameSite=Lax already; this also covers old browsers and same-site subdomains.
- * Requests without Origin (curl, server-to-server) pass: they carry no ambient cookie
- * from a browser visit.
+ * Requests without Origin (curl, server-to-server) pass unless Sec-Fetch-Site names
+ * another site: they carry no ambient cookie from a browser visit.
  */
 export function originGuard(trustedOrigins: string[]): RequestHandler {
   const trusted = new Set(trustedOrigins);
   return (req, res, next) => {
     if (req.method === 'GET' || req.method === 'HEAD' || req.method === 'OPTIONS') return next();
     const origin = req.headers.origin;
-    if (origin === undefined || trusted.has(origin)) return next();
-    res.status(403).json({ error: { code: 'forbidden_origin', message: `Requests from ${origin} are not accepted.` } });
+    if (origin !== undefined && trusted.has(origin)) return next();
+    // Without Origin, a browser still says where the request came from in Sec-Fetch-Site (a page cannot forge it).
+    const site = req.headers['sec-fetch-site'];
+    if (origin === undefined && (site === undefined || site === 'same-origin' || site === 'none')) return next();
+    const from = origin ?? `a ${String(site)} page`;
+    res.status(403).json({ error: { code: 'forbidden_origin', message: `Requests from ${from} are not accepted.` } });
   };
 }
