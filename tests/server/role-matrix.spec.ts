@@ -2,6 +2,7 @@ import supertest from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { createTestApp, personalWorkspaceOf, signUp, type Agent, type TestApp } from './helpers/test-app.js';
 import { fitBytes, notebookDoc } from './helpers/fixtures.js';
+import { recipeDoc } from './helpers/recipe-notebook.js';
 
 /**
  * Every route against every kind of caller. The lab workspace W has an admin, an
@@ -19,6 +20,12 @@ interface Fixture {
   notebookId: string;
   uploadId: string;
   mailToViewerId: string;
+  runId: string;
+  shareToken: string;
+  membersOnlyToken: string;
+  slug: string;
+  /** Each caller's personal workspace (where they are admin); '' for anon. */
+  personal: Record<Role, string>;
 }
 
 interface RouteCase {
@@ -46,6 +53,9 @@ async function disposableMember(): Promise<string> {
   await fx.agents.admin.post(`/api/workspaces/${fx.workspaceId}/members`).send({ email, role: 'viewer' }).expect(201);
   return userId;
 }
+
+/** The caller's personal workspace (where every signed-in caller is admin). */
+const ownWorkspace = (a: Agent, f: Fixture): string => f.personal[ROLES.find((r) => f.agents[r] === a)!] || 'none';
 
 const ok = 200;
 const ROUTES: RouteCase[] = [
@@ -112,6 +122,67 @@ const ROUTES: RouteCase[] = [
   { name: 'GET /api/outbox', expect: [ok, ok, ok, ok, ok, 401], run: (a) => a.get('/api/outbox') },
   // The mail to the lab viewer: the lab admin and the viewer themself see it; nobody else.
   { name: 'GET /api/outbox/:id', expect: [ok, 404, ok, 404, 404, 401], run: (a, f) => a.get(`/api/outbox/${f.mailToViewerId}`) },
+  // Working together: runs, share links, forks, publishing, export and import.
+  { name: 'POST /api/notebooks/:id/runs', expect: [201, 201, 403, 403, 404, 401], run: (a, f) => a.post(`/api/notebooks/${f.notebookId}/runs`).send({ label: 'matrix' }) },
+  { name: 'GET /api/notebooks/:id/runs', expect: [ok, ok, ok, ok, 404, 401], run: (a, f) => a.get(`/api/notebooks/${f.notebookId}/runs`) },
+  {
+    name: 'GET /api/notebooks/:id/runs/compare',
+    expect: [ok, ok, ok, ok, 404, 401],
+    run: (a, f) => a.get(`/api/notebooks/${f.notebookId}/runs/compare`).query({ path: 'stats.ref_mean' }),
+  },
+  { name: 'GET /api/runs/:id', expect: [ok, ok, ok, ok, 404, 401], run: (a, f) => a.get(`/api/runs/${f.runId}`) },
+  { name: 'GET /api/runs/:id/cells/:cellId.csv', expect: [ok, ok, ok, ok, 404, 401], run: (a, f) => a.get(`/api/runs/${f.runId}/cells/c3.csv`) },
+  { name: 'POST /api/notebooks/:id/shares', expect: [201, 201, 403, 403, 404, 401], run: (a, f) => a.post(`/api/notebooks/${f.notebookId}/shares`).send({}) },
+  { name: 'GET /api/notebooks/:id/shares', expect: [ok, ok, 403, 403, 404, 401], run: (a, f) => a.get(`/api/notebooks/${f.notebookId}/shares`) },
+  {
+    name: 'DELETE /api/shares/:token',
+    expect: [204, 204, 403, 403, 404, 401],
+    run: async (a, f) => a.delete(`/api/shares/${(await fx.agents.admin.post(`/api/notebooks/${f.notebookId}/shares`).send({})).body.token}`),
+  },
+  { name: 'GET /api/shared/:token', expect: [ok, ok, ok, ok, ok, ok], run: (a, f) => a.get(`/api/shared/${f.shareToken}`) },
+  { name: 'GET /api/shared/:token (members only)', expect: [ok, ok, ok, ok, 404, 401], run: (a, f) => a.get(`/api/shared/${f.membersOnlyToken}`) },
+  {
+    name: 'POST /api/shared/:token/fork (into own workspace)',
+    expect: [201, 201, 201, 201, 201, 401],
+    run: (a, f) => a.post(`/api/shared/${f.shareToken}/fork`).send({ workspaceId: ownWorkspace(a, f) }),
+  },
+  {
+    name: 'POST /api/notebooks/:id/fork (into own workspace)',
+    expect: [201, 201, 201, 201, 404, 401],
+    run: (a, f) => a.post(`/api/notebooks/${f.notebookId}/fork`).send({ workspaceId: ownWorkspace(a, f) }),
+  },
+  {
+    name: 'POST /api/notebooks/:id/fork (into the lab)',
+    expect: [201, 201, 403, 404, 404, 401],
+    run: (a, f) => a.post(`/api/notebooks/${f.notebookId}/fork`).send({ workspaceId: f.workspaceId }),
+  },
+  {
+    name: 'POST /api/notebooks/:id/publication',
+    expect: [ok, ok, 403, 403, 404, 401],
+    run: (a, f) => a.post(`/api/notebooks/${f.notebookId}/publication`).send({ allowDownloads: true }),
+  },
+  { name: 'GET /api/notebooks/:id/publication', expect: [ok, ok, ok, ok, 404, 401], run: (a, f) => a.get(`/api/notebooks/${f.notebookId}/publication`) },
+  {
+    name: 'DELETE /api/notebooks/:id/publication',
+    expect: [204, 204, 403, 403, 404, 401],
+    run: async (a) => {
+      const id = await labNotebook();
+      await fx.agents.admin.post(`/api/notebooks/${id}/publication`).send({}).expect(200);
+      return a.delete(`/api/notebooks/${id}/publication`);
+    },
+  },
+  { name: 'GET /api/published', expect: [ok, ok, ok, ok, ok, ok], run: (a) => a.get('/api/published') },
+  { name: 'GET /api/published/:slug', expect: [ok, ok, ok, ok, ok, ok], run: (a, f) => a.get(`/api/published/${f.slug}`) },
+  { name: 'GET /api/published/:slug/files/:uploadId', expect: [ok, ok, ok, ok, ok, ok], run: (a, f) => a.get(`/api/published/${f.slug}/files/${f.uploadId}`) },
+  { name: 'GET /api/notebooks/:id/export', expect: [ok, ok, ok, ok, 404, 401], run: (a, f) => a.get(`/api/notebooks/${f.notebookId}/export?recordings=1`) },
+  {
+    name: 'POST /api/notebooks/import',
+    expect: [201, 201, 403, 404, 404, 401],
+    run: async (a, f) => {
+      const file = (await fx.agents.admin.get(`/api/notebooks/${f.notebookId}/export?recordings=1`).expect(200)).body;
+      return a.post('/api/notebooks/import').send({ workspaceId: f.workspaceId, file });
+    },
+  },
   { name: 'GET /api/unknown', expect: [404, 404, 404, 404, 404, 404], run: (a) => a.get('/api/unknown') },
 ];
 
@@ -127,8 +198,8 @@ beforeAll(async () => {
   await agents.admin.post(`/api/workspaces/${workspaceId}/members`).send({ email: 'viewer@lab.test', role: 'viewer' }).expect(201);
   const up = await agents.admin.post('/api/uploads').field('workspaceId', workspaceId).attach('file', Buffer.from(fitBytes()), 'reference.fit').expect(201);
   const uploadId = up.body.uploads[0].id as string;
-  const slots = [{ id: 's1', name: 'reference', label: 'Reference', uploadId }];
-  const nb = await agents.admin.post('/api/notebooks').send({ workspaceId, document: notebookDoc({ slots }) }).expect(201);
+  // A recipe notebook (slots, a table, a formula, a chart), so runs, CSV and publishing have something to compute.
+  const nb = await agents.admin.post('/api/notebooks').send({ workspaceId, document: recipeDoc({ reference: uploadId, test: null }) }).expect(201);
   const notebookId = nb.body.notebook.id as string;
   await agents.admin.put(`/api/notebooks/${notebookId}/access`).send({ grants: [{ email: 'nbviewer@lab.test', role: 'viewer' }] }).expect(200);
   await supertest(t.app).post('/api/auth/request-password-reset').send({ email: 'viewer@lab.test', redirectTo: '/reset-password' }).expect(200);
@@ -139,7 +210,17 @@ beforeAll(async () => {
     if (!mailToViewerId) await new Promise((r) => setTimeout(r, 50));
   }
   expect(mailToViewerId).not.toBe('');
-  fx = { agents, ids, workspaceId, notebookId, uploadId, mailToViewerId };
+  const runId = (await agents.admin.post(`/api/notebooks/${notebookId}/runs`).send({}).expect(201)).body.id as string;
+  const shareToken = (await agents.admin.post(`/api/notebooks/${notebookId}/shares`).send({}).expect(201)).body.token as string;
+  const membersOnlyToken = (await agents.admin.post(`/api/notebooks/${notebookId}/shares`).send({ membersOnly: true }).expect(201)).body.token as string;
+  const slug = (await agents.admin.post(`/api/notebooks/${notebookId}/publication`).send({ allowDownloads: true }).expect(200)).body.slug as string;
+  const personal = {} as Record<Role, string>;
+  for (const role of ROLES) {
+    // The lab is the admin's personal workspace too: pick the one each caller administers.
+    const list = role === 'anon' ? [] : ((await agents[role].get('/api/workspaces')).body.workspaces as { id: string; personal: boolean; role: string }[]);
+    personal[role] = list.find((w) => w.personal && w.role === 'admin')?.id ?? '';
+  }
+  fx = { agents, ids, workspaceId, notebookId, uploadId, mailToViewerId, runId, shareToken, membersOnlyToken, slug, personal };
 });
 afterAll(async () => t.close());
 
