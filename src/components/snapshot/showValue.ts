@@ -11,6 +11,12 @@ function asList(v: object): unknown[] | null {
   return null;
 }
 
+/** True for a list value in any stored form (array, typed array turned object, or a long list's summary). */
+export function isListValue(v: unknown): boolean {
+  if (typeof v !== 'object' || v === null) return false;
+  return (v as { list?: unknown }).list === true || asList(v) !== null;
+}
+
 /**
  * A stored formula value as one line of text: numbers to four significant digits,
  * quantities with their unit, long lists by their summary. Works on the JSON form of
