@@ -99,9 +99,11 @@ describe('LibraryTable filters', () => {
   it('offers owner and workspace filters as labelled selects, not only a column menu', async () => {
     const wrapper = await mountTable({ notebooks: two, canCreate: true });
 
-    for (const label of ['Show notebooks', 'Filter by workspace', 'Filter by owner']) {
-      expect(wrapper.find(`[aria-label="${label}"]`).exists(), label).toBe(true);
+    const labels = wrapper.findAll('label').map((l) => [l.text(), l.attributes('for')] as const);
+    for (const [text, target] of labels) {
+      expect(wrapper.find(`input#${target}`).exists(), text).toBe(true);
     }
+    expect(labels.map(([text]) => text)).toEqual(['Show notebooks', 'Filter by workspace', 'Filter by owner']);
     expect(wrapper.find('.ant-table-filter-trigger').exists()).toBe(false);
   });
 });
