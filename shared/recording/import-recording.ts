@@ -1,8 +1,6 @@
 import { EngineError } from '../errors.js';
 import { importFailure } from './import-failure.js';
 import type { ImportOptions, ImportResult } from './import-result.js';
-import { parseCsv } from './parse-csv.js';
-import { readFit } from './parse-fit.js';
 import { sniffRecordingBytes } from './sniff.js';
 import { decodeUtf8 } from './text-decode.js';
 
@@ -12,6 +10,9 @@ import { decodeUtf8 } from './text-decode.js';
  * (`empty_file`, `too_large`, `not_recording`, `fit_truncated`, `fit_crc`, `fit_malformed`,
  * `no_power`, `too_short`, `header_only`, `no_numeric_columns`, `no_time_column`, `mixed_units`, ...)
  * and a message naming the file and where in it.
+ *
+ * The FIT and CSV readers (and their libraries, fit-file-parser and papaparse) are loaded on
+ * first use of their format, so reading one CSV file never loads the FIT decoder.
  *
  * @example
  * const result = await importRecording(bytes, 'reference.fit', { maxBytes: 50e6 });
@@ -24,9 +25,11 @@ export async function importRecording(bytes: Uint8Array, fileName: string, optio
     }
     const sniff = sniffRecordingBytes(bytes, fileName, options);
     if (sniff.format === 'fit') {
+      const { readFit } = await import('./parse-fit.js');
       const recording = await readFit(bytes, fileName, options, sniff.warnings);
       return { ok: true, recording, warnings: recording.warnings };
     }
+    const { parseCsv } = await import('./parse-csv.js');
     const result = parseCsv(decodeUtf8(bytes) ?? '', fileName, options.csvMapping, options);
     if (result.ok) result.warnings.unshift(...sniff.warnings);
     return result;
