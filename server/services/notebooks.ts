@@ -12,6 +12,7 @@ import type { NotebookDocument } from '../../shared/notebook/document.js';
 import { migrateNotebookDocument } from '../../shared/notebook/migrate-document.js';
 import type { Db } from '../db/client.js';
 import * as repo from '../db/repositories/notebooks.js';
+import { userCanSeeUpload } from '../db/repositories/uploads.js';
 import { findUsersByEmails } from '../db/repositories/users.js';
 import { findRole } from '../db/repositories/workspaces.js';
 import { AppError, notFound } from '../errors.js';
@@ -25,6 +26,7 @@ export async function listNotebooks(db: Db, userId: string, workspaceId?: string
 export async function createNotebook(db: Db, userId: string, body: CreateNotebookBody): Promise<NotebookResponse> {
   assertWorkspace(await findRole(db, body.workspaceId, userId), 'create');
   assertStorableJson(body.document, 'document');
+  await assertUploadsVisible(db, userId, body.document);
   const id = await repo.insertNotebook(db, {
     workspaceId: body.workspaceId,
     ownerId: userId,
@@ -47,6 +49,7 @@ export async function saveNotebook(db: Db, userId: string, notebookId: string, b
   await reach(db, userId, notebookId, 'edit');
   assertStorableJson(body.document, 'document');
   assertStorableJson(body.summary ?? '', 'summary');
+  await assertUploadsVisible(db, userId, body.document);
   await append(db, userId, notebookId, body.baseRevision, body.document, body.summary ?? '');
   return getNotebook(db, userId, notebookId);
 }
@@ -95,6 +98,17 @@ export async function putAccess(db: Db, userId: string, notebookId: string, body
   }
   await repo.replaceGrants(db, notebookId, users.map((u) => ({ userId: u.id, role: byEmail.get(u.email)! })));
   return { grants: (await repo.listGrants(db, notebookId)).map(toGrant) };
+}
+
+/**
+ * A slot may only bind an upload the caller can already read: otherwise binding a
+ * guessed or leaked id of another workspace would make its bytes readable through the
+ * notebook. Answers 404 like any other id the caller cannot see.
+ */
+async function assertUploadsVisible(db: Db, userId: string, document: NotebookDocument): Promise<void> {
+  for (const slot of document.slots) {
+    if (slot.uploadId !== null && !(await userCanSeeUpload(db, slot.uploadId, userId))) throw notFound('Upload');
+  }
 }
 
 async function reach(db: Db, userId: string, notebookId: string, action: NotebookAction): Promise<repo.NotebookAccessRecord> {
