@@ -60,8 +60,10 @@ export function useNotebookRun(engine: EngineClient) {
   watch(() => store.document, (doc, before) => {
     if (doc && before && doc !== before) requestRun();
   });
+  // Progress reports cross the worker boundary on their own and may land after the run
+  // has ended; a late one must not leave a cell showing "computing".
   watch(engine.runningCellId, (id) => {
-    store.runningCellId = id;
+    store.runningCellId = store.running ? id : null;
   });
 
   onScopeDispose(() => {
