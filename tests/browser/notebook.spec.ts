@@ -157,7 +157,7 @@ async function buildAndCheck(page: Page): Promise<void> {
 
     await addCell(page, 'Formula – compute numbers');
     const formulaCell = page.locator('[data-cell-kind-formula], [data-kind="formula"]').last();
-    await formulaCell.locator('[data-editor="ready"]').waitFor({ timeout: 30_000 });
+    await formulaCell.locator('[data-editor="ready"]').waitFor({ timeout: 90_000 });
     await formulaCell.locator('.monaco-editor .view-lines').click();
     await page.keyboard.insertText(FORMULA);
     await until('the formula to reach the notebook', async () => (await formulaCell.getAttribute('data-state')) !== 'fresh' || (await formulaCell.locator('[data-value-name]').count()) > 0);
