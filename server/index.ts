@@ -11,6 +11,7 @@ import { startSmtpCatcher, type SmtpCatcher } from './mail/smtp-catcher.js';
 import { findUserByEmail } from './db/repositories/users.js';
 import { storeCaughtMail } from './services/outbox.js';
 import { DEMO_ACCOUNTS, DEMO_PASSWORD, seedDemo } from './services/seed.js';
+import { startupErrorLine } from './startup-error.js';
 
 /** Starts Cogbook: lock, database, migrations, mail, seed, HTTP. Stops cleanly on SIGINT/SIGTERM. */
 async function main(): Promise<void> {
@@ -91,6 +92,7 @@ async function main(): Promise<void> {
 }
 
 main().catch((error: unknown) => {
-  process.stderr.write(`cogbook: could not start: ${error instanceof Error ? (error.stack ?? error.message) : String(error)}\n`);
+  process.stderr.write(`cogbook: could not start: ${startupErrorLine(error, process.env)}\n`);
+  if (/^(debug|trace)$/.test(process.env.LOG_LEVEL ?? '') && error instanceof Error) process.stderr.write(`${error.stack}\n`);
   process.exit(1);
 });

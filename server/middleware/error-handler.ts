@@ -21,6 +21,8 @@ export const notFoundHandler: RequestHandler = (req, res) => {
 export function errorHandler(logger: Logger, uploadLimitMb: number): ErrorRequestHandler {
   return (err: unknown, req, res, next) => {
     if (res.headersSent) return next(err);
+    // pino-http's per-request logger, so the line carries the request id.
+    const log = (req as { log?: Logger }).log ?? logger;
     const sent = (status: number, payload: ApiError) => res.status(status).json(payload);
     if (err instanceof AppError) return sent(err.status, body(err.code, err.message, err.details));
     if (err instanceof ZodError) {
@@ -46,10 +48,10 @@ export function errorHandler(logger: Logger, uploadLimitMb: number): ErrorReques
     }
     if (/^22/.test(databaseErrorCode(err) ?? '')) {
       // SQLSTATE class 22 "data exception": the request carried a value the database refuses (e.g. NUL in text).
-      logger.warn({ err, method: req.method, path: req.path }, 'value refused by the database');
+      log.warn({ err, method: req.method, path: req.path }, 'value refused by the database');
       return sent(400, body('unstorable_value', 'The request holds a value that cannot be stored (for example a NUL character).'));
     }
-    logger.error({ err, method: req.method, path: req.path }, 'unhandled error');
+    log.error({ err, method: req.method, path: req.path }, 'unhandled error');
     return sent(500, body('internal', 'Something went wrong on the server. The error was logged.'));
   };
 }
