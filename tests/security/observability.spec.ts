@@ -52,7 +52,8 @@ describe('start-up failures: exit code not 0 and one clear line', () => {
     // A path below a plain file cannot become a folder, whoever runs the test (root included).
     const file = join(scratch, 'plain-file');
     writeFileSync(file, 'not a folder');
-    for (const extra of [{}, { AUTH_SECRET: 'observability-secret-observability-secret' }]) {
+    const extras: Record<string, string>[] = [{}, { AUTH_SECRET: 'observability-secret-observability-secret' }];
+    for (const extra of extras) {
       const run = await runToExit({ DATA_DIR: join(file, 'data'), ...extra });
       expect(run.code).not.toBe(0);
       expectOneLine(run.stderr, `DATA_DIR ${join(file, 'data')} cannot be used`, 'ENOTDIR');

@@ -23,6 +23,9 @@ export interface CrashSite {
   close(keep?: boolean): Promise<void>;
 }
 
+// A busy machine can take well over a minute to create a fresh PGlite folder.
+const START = { readyWithinMs: 180_000 };
+
 export async function openCrashSite(env: Record<string, string> = {}): Promise<CrashSite> {
   const dataDir = mkdtempSync(join(tmpdir(), 'cogbook-crash-'));
   const fullEnv = {
@@ -36,7 +39,7 @@ export async function openCrashSite(env: Record<string, string> = {}): Promise<C
   const lockFile = join(dataDir, 'cogbook.lock');
   const site: CrashSite = {
     dataDir,
-    server: await startServer(fullEnv),
+    server: await startServer(fullEnv, START),
     async kill() {
       const child = site.server.child;
       if (child.exitCode !== null || child.signalCode !== null) return;
@@ -46,7 +49,7 @@ export async function openCrashSite(env: Record<string, string> = {}): Promise<C
     },
     async restart() {
       const started = Date.now();
-      site.server = await startServer(fullEnv);
+      site.server = await startServer(fullEnv, START);
       return Date.now() - started;
     },
     staleLockLeft: () => existsSync(lockFile),
