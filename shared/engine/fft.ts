@@ -1,3 +1,29 @@
+/** Twiddle factors of a power-of-two transform size: cos and -sin of 2 pi k / n for k < n / 2. */
+export interface FftTwiddles {
+  cos: Float64Array;
+  /** Of the forward transform (-sin); the inverse uses their negation. */
+  sin: Float64Array;
+}
+
+/**
+ * The twiddle table of size `n`, for callers that run several transforms of one size and
+ * would otherwise have each call rebuild it. Computed from exact sin/cos per k, not by
+ * repeated multiplication, so rounding does not build up across stages.
+ *
+ * @example const tw = fftTwiddles(1024); fft(re, im, false, tw); fft(re, im, true, tw);
+ */
+export function fftTwiddles(n: number): FftTwiddles {
+  const half = n >> 1;
+  const cos = new Float64Array(half);
+  const sin = new Float64Array(half);
+  for (let k = 0; k < half; k++) {
+    const a = (2 * Math.PI * k) / n;
+    cos[k] = Math.cos(a);
+    sin[k] = -Math.sin(a);
+  }
+  return { cos, sin };
+}
+
 /**
  * In-place iterative radix-2 FFT of a complex signal held as two Float64Arrays.
  * The length must be a power of two (see {@link fftSize}). The inverse includes the
@@ -6,11 +32,12 @@
  * @param re real parts (overwritten)
  * @param im imaginary parts (overwritten)
  * @param inverse false (default) for the forward transform e^{-2 pi i k n / N}
+ * @param twiddles the table of {@link fftTwiddles} for this length (built when not given)
  * @example
  * const re = Float64Array.of(1, 0, 0, 0), im = new Float64Array(4);
  * fft(re, im); // re = [1, 1, 1, 1]
  */
-export function fft(re: Float64Array, im: Float64Array, inverse = false): void {
+export function fft(re: Float64Array, im: Float64Array, inverse = false, twiddles?: FftTwiddles): void {
   const n = re.length;
   if (n !== im.length || (n & (n - 1)) !== 0) {
     throw new RangeError(`fft needs two arrays of one power-of-two length, got ${n} and ${im.length}`);
@@ -29,24 +56,17 @@ export function fft(re: Float64Array, im: Float64Array, inverse = false): void {
       im[j] = t;
     }
   }
-  // Twiddles are computed once per call from exact sin/cos, not by repeated
-  // multiplication, so rounding does not build up across stages.
-  const half = n >> 1;
-  const cos = new Float64Array(half);
-  const sin = new Float64Array(half);
-  const sign = inverse ? 1 : -1;
-  for (let k = 0; k < half; k++) {
-    const a = (2 * Math.PI * k) / n;
-    cos[k] = Math.cos(a);
-    sin[k] = sign * Math.sin(a);
-  }
+  const { cos, sin } = twiddles ?? fftTwiddles(n);
+  if (cos.length !== n >> 1) throw new RangeError(`fft of length ${n} was given twiddles of length ${2 * cos.length}`);
+  // Negating the forward table is exact, so the inverse's factors are +sin as computed.
+  const sign = inverse ? -1 : 1;
   for (let size = 2; size <= n; size <<= 1) {
     const h = size >> 1;
     const step = n / size;
     for (let start = 0; start < n; start += size) {
       for (let k = 0; k < h; k++) {
         const wr = cos[k * step]!;
-        const wi = sin[k * step]!;
+        const wi = sign * sin[k * step]!;
         const a = start + k;
         const b = a + h;
         const xr = re[b]! * wr - im[b]! * wi;

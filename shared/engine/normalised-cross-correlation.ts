@@ -1,4 +1,4 @@
-import { fft, fftSize } from './fft.js';
+import { fft, fftSize, fftTwiddles, type FftTwiddles } from './fft.js';
 
 /** Pearson correlation of `a[n + k]` with `v[n]` for every lag, over the pairs where both are finite. */
 export interface NormalisedCrossCorrelation {
@@ -44,16 +44,22 @@ export function normalisedCrossCorrelation(
   // A circular correlation of length n holds lag k plus lags k +- n; those fall outside
   // the non-zero range [-(lv - 1), la - 1] for every wanted k once n >= la - lo and n >= hi + lv.
   const n = fftSize(Math.max(la - lo, hi + lv));
+  // One twiddle table serves all six transforms; each pair of real signals travels as the
+  // real and imaginary parts of one complex array, built in place.
+  const tw = fftTwiddles(n);
+  const value = { re: new Float64Array(n), im: new Float64Array(n) };
+  const mask = { re: new Float64Array(n), im: new Float64Array(n) };
+  const square = { re: new Float64Array(n), im: new Float64Array(n) };
   // Centring by the mean of the finite samples changes no correlation and keeps the
   // sums small, so the subtraction in the Pearson formula loses few digits.
-  const sa = realParts(a, finiteMean(a), n);
-  const sv = realParts(v, finiteMean(v), n);
-  const [aValue, vValue] = transformPair(sa.value, sv.value);
-  const [aMask, vMask] = transformPair(sa.mask, sv.mask);
-  const [aSquare, vSquare] = transformPair(sa.square, sv.square);
-  const [count, sumAV] = correlatePair(aMask, vMask, aValue, vValue);
-  const [sumA, sumV] = correlatePair(aValue, vMask, aMask, vValue);
-  const [sumAA, sumVV] = correlatePair(aSquare, vMask, aMask, vSquare);
+  realParts(a, finiteMean(a), value.re, mask.re, square.re);
+  realParts(v, finiteMean(v), value.im, mask.im, square.im);
+  const [aValue, vValue] = transformPair(value, tw);
+  const [aMask, vMask] = transformPair(mask, tw);
+  const [aSquare, vSquare] = transformPair(square, tw);
+  const [count, sumAV] = correlatePair(aMask, vMask, aValue, vValue, tw);
+  const [sumA, sumV] = correlatePair(aValue, vMask, aMask, vValue, tw);
+  const [sumAA, sumVV] = correlatePair(aSquare, vMask, aMask, vSquare, tw);
   for (let k = lo; k <= hi; k++) {
     const j = k + lv - 1;
     const idx = (k + n) % n;
@@ -89,11 +95,8 @@ function finiteMean(x: ArrayLike<number>): number {
   return m > 0 ? sum / m : 0;
 }
 
-/** Centred values, the finite-sample mask and squared centred values, zero-padded to n. */
-function realParts(x: ArrayLike<number>, mean: number, n: number): { value: Float64Array; mask: Float64Array; square: Float64Array } {
-  const value = new Float64Array(n);
-  const mask = new Float64Array(n);
-  const square = new Float64Array(n);
+/** Centred values, the finite-sample mask and squared centred values into zeroed arrays (zero padding beyond x). */
+function realParts(x: ArrayLike<number>, mean: number, value: Float64Array, mask: Float64Array, square: Float64Array): void {
   for (let i = 0; i < x.length; i++) {
     const raw = x[i]!;
     if (!Number.isFinite(raw)) continue;
@@ -102,37 +105,42 @@ function realParts(x: ArrayLike<number>, mean: number, n: number): { value: Floa
     mask[i] = 1;
     square[i] = c * c;
   }
-  return { value, mask, square };
 }
 
-/** Spectra of two real signals from one complex transform of x + i y. */
-function transformPair(x: Float64Array, y: Float64Array): [Spectrum, Spectrum] {
-  const n = x.length;
-  const re = x.slice();
-  const im = y.slice();
-  fft(re, im);
-  const X = { re: new Float64Array(n), im: new Float64Array(n) };
+/**
+ * Spectra of two real signals x (in `z.re`) and y (in `z.im`) from one complex transform
+ * of x + i y. X overwrites z; Y gets new arrays.
+ */
+function transformPair(z: Spectrum, tw: FftTwiddles): [Spectrum, Spectrum] {
+  const { re, im } = z;
+  const n = re.length;
+  fft(re, im, false, tw);
   const Y = { re: new Float64Array(n), im: new Float64Array(n) };
-  for (let k = 0; k < n; k++) {
+  // X[k] = (Z[k] + conj Z[n-k]) / 2, Y[k] = (Z[k] - conj Z[n-k]) / 2i; k and n - k are
+  // read together so the spectrum can be rewritten in place.
+  for (let k = 0; k <= n >> 1; k++) {
     const m = (n - k) % n;
     const zr = re[k]!;
     const zi = im[k]!;
     const wr = re[m]!;
     const wi = im[m]!;
-    // X[k] = (Z[k] + conj Z[n-k]) / 2, Y[k] = (Z[k] - conj Z[n-k]) / 2i
-    X.re[k] = (zr + wr) / 2;
-    X.im[k] = (zi - wi) / 2;
+    re[k] = (zr + wr) / 2;
+    im[k] = (zi - wi) / 2;
     Y.re[k] = (zi + wi) / 2;
     Y.im[k] = (wr - zr) / 2;
+    re[m] = (wr + zr) / 2;
+    im[m] = (wi - zi) / 2;
+    Y.re[m] = (wi + zi) / 2;
+    Y.im[m] = (zr - wr) / 2;
   }
-  return [X, Y];
+  return [z, Y];
 }
 
 /**
  * Two real circular correlations at once: p = sum_n a1[n + k] v1[n] and
  * q = sum_n a2[n + k] v2[n], from one inverse transform of A1 conj(V1) + i A2 conj(V2).
  */
-function correlatePair(a1: Spectrum, v1: Spectrum, a2: Spectrum, v2: Spectrum): [Float64Array, Float64Array] {
+function correlatePair(a1: Spectrum, v1: Spectrum, a2: Spectrum, v2: Spectrum, tw: FftTwiddles): [Float64Array, Float64Array] {
   const n = a1.re.length;
   const re = new Float64Array(n);
   const im = new Float64Array(n);
@@ -144,6 +152,6 @@ function correlatePair(a1: Spectrum, v1: Spectrum, a2: Spectrum, v2: Spectrum): 
     re[f] = pr - qi;
     im[f] = pi + qr;
   }
-  fft(re, im, true);
+  fft(re, im, true, tw);
   return [re, im];
 }
