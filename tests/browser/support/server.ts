@@ -30,7 +30,7 @@ export async function freePort(): Promise<number> {
  * Starts dist/node/server/index.js (built by `npm run build`, which `npm test` runs first)
  * and waits until /api/health answers.
  */
-export async function startServer(env: Record<string, string> = {}): Promise<RunningServer> {
+export async function startServer(env: Record<string, string> = {}, options: { readyWithinMs?: number } = {}): Promise<RunningServer> {
   const port = await freePort();
   const dataDir = env.DATA_DIR ?? mkdtempSync(join(tmpdir(), 'cogbook-browser-'));
   const child: ChildProcess = spawn(process.execPath, ['dist/node/server/index.js'], {
@@ -42,7 +42,9 @@ export async function startServer(env: Record<string, string> = {}): Promise<Run
   child.stdout?.on('data', (chunk) => (output += chunk));
   child.stderr?.on('data', (chunk) => (output += chunk));
   const url = `http://127.0.0.1:${port}`;
-  const deadline = Date.now() + 60_000;
+  // A first start seeds the demo lab (and computes its published snapshot): on a busy machine that can take minutes.
+  const readyWithinMs = options.readyWithinMs ?? 60_000;
+  const deadline = Date.now() + readyWithinMs;
   for (;;) {
     if (child.exitCode !== null) throw new Error(`server exited early (${child.exitCode}):\n${output}`);
     try {
@@ -53,7 +55,7 @@ export async function startServer(env: Record<string, string> = {}): Promise<Run
     }
     if (Date.now() > deadline) {
       child.kill('SIGKILL');
-      throw new Error(`server did not become healthy within 60 s:\n${output}`);
+      throw new Error(`server did not become healthy within ${readyWithinMs / 1000} s:\n${output}`);
     }
     await new Promise((r) => setTimeout(r, 200));
   }
