@@ -21,7 +21,7 @@ const KNOWN_ELSEWHERE: { page: RegExp; rule: string; targets: RegExp; owner: str
   { page: /^sign-up$/, rule: 'link-in-text-block', targets: /^a$/, owner: 'SignUpView.vue: the "Sign in" link in the closing sentence has no underline' },
   { page: /^team$/, rule: 'label', targets: /^#rc_select_\d+$/, owner: 'team/TeamMemberTable.vue, TeamAddMemberForm.vue: role selects without a label (give the Select an id and a <label for>)' },
   { page: /^notebook/, rule: 'label', targets: /^#rc_select_\d+$/, owner: 'notebook editor: selects without a label' },
-  { page: /^notebook/, rule: 'color-contrast', targets: /cell-output__note|^(p|strong|em|code|li|h\d)\b/, owner: 'notebook editor: faded text of stale note output' },
+  { page: /^notebook/, rule: 'color-contrast', targets: /cell-output__note|line-numbers|^(p|strong|em|code|li|h\d)\b/, owner: 'notebook editor: faded text of stale note output; formula editor line numbers' },
 ];
 
 interface Finding {
@@ -70,7 +70,8 @@ async function audit(page: Page): Promise<Finding[]> {
 /** Opens a page, lets it settle and audits it; answers the serious and critical findings. */
 async function check(page: Page, path: string, ready: string, label: string): Promise<string[]> {
   await page.goto(`${server.url}${path}`);
-  await page.locator(ready).first().waitFor();
+  // Generous: on a busy machine the first load of a chunk can take a while.
+  await page.locator(ready).first().waitFor({ timeout: 60_000 });
   await page.waitForLoadState('networkidle');
   return report(page, label);
 }

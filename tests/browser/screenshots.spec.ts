@@ -55,8 +55,9 @@ describe.skipIf(!enabled)('README screenshots', () => {
     await page.waitForURL(/\/notebooks\//, { timeout: 60_000 });
     await cellsFresh(page);
     // The per-leg numbers and the bars against the tolerance are the finding: show those.
-    const bars = page.locator('.chart-view').first();
-    await bars.evaluate((e) => e.scrollIntoView({ block: 'center' }));
+    const barsCell = page.locator('[aria-label^="Chart cell leg_bars"]').first();
+    await barsCell.evaluate((e) => e.scrollIntoView({ block: 'center' }));
+    const bars = barsCell.locator('.chart-view').first();
     await expect.poll(() => bars.getAttribute('data-ready'), { timeout: 60_000 }).toBe('true');
     await page.waitForTimeout(500);
     await page.screenshot({ path: `${OUT}/notebook.png` });
