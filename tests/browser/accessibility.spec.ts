@@ -36,7 +36,8 @@ let browser: Browser;
 const opened: WatchedPage[] = [];
 
 beforeAll(async () => {
-  server = await startServer();
+  // A fresh data directory seeds the demo lab; on a busy machine that takes well over a minute.
+  server = await startServer({}, { readyWithinMs: 170_000 });
   browser = await launchBrowser();
 });
 

@@ -30,7 +30,8 @@ async function cellsFresh(page: Page): Promise<void> {
 describe.skipIf(!enabled)('README screenshots', () => {
   beforeAll(async () => {
     mkdirSync(OUT, { recursive: true });
-    server = await startServer();
+    // A fresh data directory seeds the demo lab; on a busy machine that takes well over a minute.
+    server = await startServer({}, { readyWithinMs: 170_000 });
     browser = await launchBrowser();
   });
 
