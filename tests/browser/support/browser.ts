@@ -29,6 +29,8 @@ export interface WatchedPage {
 
 export async function watchedPage(browser: Browser, options: { width?: number; height?: number } = {}): Promise<WatchedPage> {
   const context = await browser.newContext({ viewport: { width: options.width ?? 1280, height: options.height ?? 860 } });
+  // Generous: a cold lazy chunk on a busy two-core machine can take a while.
+  context.setDefaultTimeout(60_000);
   const page = await context.newPage();
   const problems: string[] = [];
   // A string, not a function: transpiled test code may reference helpers the page lacks.

@@ -43,7 +43,7 @@ export async function startServer(env: Record<string, string> = {}, options: { r
   child.stderr?.on('data', (chunk) => (output += chunk));
   const url = `http://127.0.0.1:${port}`;
   // A first start seeds the demo lab (and computes its published snapshot): on a busy machine that can take minutes.
-  const readyWithinMs = options.readyWithinMs ?? 60_000;
+  const readyWithinMs = options.readyWithinMs ?? 180_000;
   const deadline = Date.now() + readyWithinMs;
   for (;;) {
     if (child.exitCode !== null) throw new Error(`server exited early (${child.exitCode}):\n${output}`);
