@@ -232,6 +232,33 @@ describe('working together on a notebook', () => {
     }
   });
 
+  it('the analyst downloads a notebook file and opens it again from the library as a new notebook', { timeout: 180_000 }, async () => {
+    const w = await watchedPage(browser, { width: 1280, height: 860 });
+    try {
+      await signInAs(w.page, server.url, 'analyst@ridgeline.test');
+      const exported = await w.page.request.get(`${server.url}/api/notebooks/${story.notebookId}/export?recordings=1`);
+      expect(exported.status()).toBe(200);
+      const file = join(dir, 'chainring.cogbook.json');
+      writeFileSync(file, await exported.body());
+
+      await w.page.getByTestId('import-notebook-file').setInputFiles(file);
+      await w.page.waitForURL(/\/notebooks\/[^/]+$/);
+      const importedId = w.page.url().split('/').pop()!;
+      expect(importedId).not.toBe(story.notebookId);
+      await w.page.getByTestId('open-runs').waitFor();
+      const imported = (await (await w.page.request.get(`${server.url}/api/notebooks/${importedId}`)).json()) as NotebookResponse;
+      expect(imported.document.title).toBe(scenario.title);
+      expect(imported.document.cells.map((c) => c.name)).toEqual(
+        ((await (await w.page.request.get(`${server.url}/api/notebooks/${story.notebookId}`)).json()) as NotebookResponse).document.cells.map((c) => c.name),
+      );
+      // The recordings came along inside the file: both inputs are bound.
+      expect(imported.document.slots.every((s) => s.uploadId !== null)).toBe(true);
+      expect(w.problems).toEqual([]);
+    } finally {
+      await w.context.close();
+    }
+  });
+
   it('a published address that does not exist says so', { timeout: 60_000 }, async () => {
     const w = await watchedPage(browser);
     try {
