@@ -79,14 +79,7 @@ export function ratioCi(
     st += t[k]!;
     sr += r[k]!;
   }
-  let blockLength = options.blockLength;
-  if (blockLength === undefined && n > 0) {
-    const ratio = st / sr;
-    const influence = new Float64Array(n);
-    for (let k = 0; k < n; k++) influence[k] = t[k]! - ratio * r[k]!;
-    blockLength = optimalBlockLength(influence);
-  }
-  return sumRatioBootstrapCi(t, r, { ...options, blockLength });
+  return ratioOfSumsCi(t, r, st / sr, options);
 }
 
 /**
@@ -119,15 +112,19 @@ export function gainCi(
     str += tr[k]!;
     srr += rr[k]!;
   }
+  return ratioOfSumsCi(tr, rr, str / srr, options);
+}
+
+/**
+ * Interval of sum(num)/sum(den) by resampling block sums; without a block length, one is
+ * chosen from the influence series num - estimate * den.
+ */
+function ratioOfSumsCi(num: Float64Array, den: Float64Array, estimate: number, options: BlockBootstrapOptions): BootstrapCi {
   let blockLength = options.blockLength;
-  if (blockLength === undefined && n > 0) {
-    const gain = str / srr;
-    const influence = new Float64Array(n);
-    for (let k = 0; k < n; k++) {
-      const rk = reference[pairs[k]!]!;
-      influence[k] = rk * (test[pairs[k]!]! - gain * rk);
-    }
+  if (blockLength === undefined && num.length > 0) {
+    const influence = new Float64Array(num.length);
+    for (let k = 0; k < num.length; k++) influence[k] = num[k]! - estimate * den[k]!;
     blockLength = optimalBlockLength(influence);
   }
-  return sumRatioBootstrapCi(tr, rr, { ...options, blockLength });
+  return sumRatioBootstrapCi(num, den, { ...options, blockLength });
 }
