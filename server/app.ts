@@ -7,11 +7,13 @@ import { pinoHttp } from 'pino-http';
 import { toNodeHandler } from 'better-auth/node';
 import { CLIENT_IP_HEADER, createAuth, type Auth } from './auth.js';
 import type { AppContext, AppDeps } from './context.js';
+import { configureComputeThreads } from './engine/run-in-worker.js';
 import { errorHandler, notFoundHandler } from './middleware/error-handler.js';
 import { ENGINE_WORKER_CSP, isEngineWorkerAsset, originGuard, securityHeaders } from './middleware/security.js';
 import { requireSession } from './middleware/session.js';
 import { exportRoutes } from './routes/exports.js';
 import { healthRoutes } from './routes/health.js';
+import { invitationRoutes } from './routes/invitations.js';
 import { notebookRoutes } from './routes/notebooks.js';
 import { outboxRoutes } from './routes/outbox.js';
 import { publicationRoutes } from './routes/publications.js';
@@ -42,6 +44,7 @@ export function createApp(deps: AppDeps): AppHandle {
     onUserCreated: (user) => createPersonalWorkspace(deps.database.db, user),
   });
   const ctx: AppContext = { ...deps, auth, version: deps.version ?? packageVersion(deps.config.rootDir) };
+  if (deps.config.workerThreads !== undefined) configureComputeThreads(deps.config.workerThreads);
   const app = express();
   app.disable('x-powered-by');
   app.set('trust proxy', deps.config.trustProxy);
@@ -70,6 +73,7 @@ export function createApp(deps: AppDeps): AppHandle {
   const signedIn = requireSession(auth);
   // Working together: these routers check the session per route, as some of their routes are public.
   app.use('/api', exportRoutes(ctx), runRoutes(ctx), shareRoutes(ctx), publicationRoutes(ctx));
+  app.use('/api', invitationRoutes(ctx));
   app.use('/api/workspaces', signedIn, workspaceRoutes(ctx));
   app.use('/api/notebooks', signedIn, notebookRoutes(ctx));
   app.use('/api/uploads', signedIn, uploadRoutes(ctx));

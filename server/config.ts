@@ -34,6 +34,8 @@ const envSchema = z.object({
   SIGN_IN_LIMIT: z.coerce.number().int().positive().default(30),
   /** Create the demo lab and its accounts when the database is empty (set to 0 to skip). */
   SEED_DEMO: z.enum(['0', '1']).default('1'),
+  /** Warm worker threads for server-side runs and snapshots (default: two, one on a single core). */
+  WORKER_THREADS: z.coerce.number().int().min(1).max(64).optional(),
 });
 
 export interface Config {
@@ -51,6 +53,8 @@ export interface Config {
   trustProxy: boolean | number | string;
   signInLimit: number;
   seedDemo: boolean;
+  /** Size of the compute pool; undefined = the engine's default. */
+  workerThreads: number | undefined;
   /** Repository root (holds drizzle/ and dist/client/), found from this file's location. */
   rootDir: string;
 }
@@ -80,6 +84,7 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env): Config {
     trustProxy: parseTrustProxy(e.TRUST_PROXY),
     signInLimit: e.SIGN_IN_LIMIT,
     seedDemo: e.SEED_DEMO === '1',
+    workerThreads: e.WORKER_THREADS,
     rootDir: findRootDir(),
   };
 }
