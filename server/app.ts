@@ -13,7 +13,6 @@ import { ENGINE_WORKER_CSP, isEngineWorkerAsset, originGuard, securityHeaders } 
 import { requireSession } from './middleware/session.js';
 import { exportRoutes } from './routes/exports.js';
 import { healthRoutes } from './routes/health.js';
-import { invitationRoutes } from './routes/invitations.js';
 import { notebookRoutes } from './routes/notebooks.js';
 import { outboxRoutes } from './routes/outbox.js';
 import { publicationRoutes } from './routes/publications.js';
@@ -73,7 +72,6 @@ export function createApp(deps: AppDeps): AppHandle {
   const signedIn = requireSession(auth);
   // Working together: these routers check the session per route, as some of their routes are public.
   app.use('/api', exportRoutes(ctx), runRoutes(ctx), shareRoutes(ctx), publicationRoutes(ctx));
-  app.use('/api', invitationRoutes(ctx));
   app.use('/api/workspaces', signedIn, workspaceRoutes(ctx));
   app.use('/api/notebooks', signedIn, notebookRoutes(ctx));
   app.use('/api/uploads', signedIn, uploadRoutes(ctx));
