@@ -1,8 +1,10 @@
 import { writeFile } from 'node:fs/promises';
 import { parseArgs } from 'node:util';
+import { benchBrowser } from './browser.bench.js';
 import { benchCompare } from './compare.bench.js';
 import { formatTable } from './format-table.js';
 import { benchImport } from './import.bench.js';
+import { benchLoad } from './load.bench.js';
 import { describeMachine } from './machine.js';
 import { benchPeer } from './peer.bench.js';
 import { repoPath } from './repo-path.js';
@@ -16,6 +18,8 @@ const BENCHES: Record<string, Bench> = {
   import: benchImport,
   compare: benchCompare,
   peer: benchPeer,
+  load: benchLoad,
+  browser: benchBrowser,
 };
 
 const USAGE = `Usage: npm run bench -- [--only NAME[,NAME]] [--quick]

@@ -1,0 +1,120 @@
+import { spawn, type ChildProcess } from 'node:child_process';
+import { existsSync, mkdtempSync, readFileSync, rmSync } from 'node:fs';
+import { createServer } from 'node:net';
+import { tmpdir } from 'node:os';
+import { dirname, join } from 'node:path';
+import { fileURLToPath } from 'node:url';
+
+/** A Cogbook server process (the compiled build) under load. */
+export interface LoadServer {
+  url: string;
+  /** `pglite` or `postgres`, as /api/health reports it. */
+  database: string;
+  /** Everything the process printed, for a failure message. */
+  output(): string;
+  /** SIGTERM (SIGKILL after 10 s) and removes the temporary data folder. */
+  stop(): Promise<void>;
+}
+
+export interface LoadServerOptions {
+  /** PostgreSQL URL; without it the server uses embedded PGlite in a fresh temporary folder. */
+  databaseUrl?: string;
+  /** A fresh data folder takes a while, and the demo lab computes its published snapshot on first start. */
+  readyWithinMs?: number;
+}
+
+/** The repository root: the nearest folder above this file holding Cogbook's package.json (source or dist/node). */
+export function repoRoot(): string {
+  let dir = dirname(fileURLToPath(import.meta.url));
+  for (;;) {
+    const pkg = join(dir, 'package.json');
+    if (existsSync(pkg) && (JSON.parse(readFileSync(pkg, 'utf8')) as { name?: string }).name === 'cogbook') return dir;
+    const up = dirname(dir);
+    if (up === dir) throw new Error('cannot find the Cogbook repository root above bench/load');
+    dir = up;
+  }
+}
+
+/** A loopback port nobody listens on right now. */
+export function freePort(): Promise<number> {
+  return new Promise((resolve, reject) => {
+    const probe = createServer();
+    probe.once('error', reject);
+    probe.listen(0, '127.0.0.1', () => {
+      const address = probe.address();
+      probe.close(() => (typeof address === 'object' && address ? resolve(address.port) : reject(new Error('no free port'))));
+    });
+  });
+}
+
+/**
+ * Starts `node dist/node/server/index.js` (from `npm run build:node`) in production mode
+ * on 127.0.0.1 and a free port, with the demo lab seeded (so a published notebook exists),
+ * and waits until /api/health answers.
+ *
+ * TRUST_PROXY=loopback lets the load driver give each editor its own client address in
+ * X-Forwarded-For, as editors behind a reverse proxy would have: the sign-in limits
+ * (the app's and better-auth's 3 per 10 s) then count per editor, not for all at once.
+ */
+export async function startLoadServer(options: LoadServerOptions = {}): Promise<LoadServer> {
+  const root = repoRoot();
+  const entry = join(root, 'dist/node/server/index.js');
+  if (!existsSync(entry)) throw new Error(`${entry} is missing: run npm run build:node first`);
+  const port = await freePort();
+  const url = `http://127.0.0.1:${port}`;
+  const dataDir = mkdtempSync(join(tmpdir(), 'cogbook-load-'));
+  const child: ChildProcess = spawn(process.execPath, [entry], {
+    cwd: root,
+    env: {
+      PATH: process.env.PATH ?? '',
+      HOME: process.env.HOME ?? tmpdir(),
+      NODE_ENV: 'production',
+      HOST: '127.0.0.1',
+      PORT: String(port),
+      BASE_URL: url,
+      DATA_DIR: dataDir,
+      DATABASE_URL: options.databaseUrl ?? '',
+      SEED_DEMO: '1',
+      TRUST_PROXY: 'loopback',
+      AUTH_SECRET: 'load-bench-secret-load-bench-secret-0123',
+      LOG_LEVEL: 'warn',
+    },
+    stdio: ['ignore', 'pipe', 'pipe'],
+  });
+  let output = '';
+  child.stdout?.on('data', (chunk: Buffer) => (output += chunk.toString()));
+  child.stderr?.on('data', (chunk: Buffer) => (output += chunk.toString()));
+  const stop = async () => {
+    if (child.exitCode === null && child.signalCode === null) {
+      const exited = new Promise((r) => child.once('exit', r));
+      child.kill('SIGTERM');
+      await Promise.race([exited, new Promise((r) => setTimeout(r, 10_000))]);
+      if (child.exitCode === null && child.signalCode === null) {
+        child.kill('SIGKILL');
+        await exited;
+      }
+    }
+    rmSync(dataDir, { recursive: true, force: true });
+  };
+  const deadline = Date.now() + (options.readyWithinMs ?? 300_000);
+  for (;;) {
+    if (child.exitCode !== null) {
+      await stop();
+      throw new Error(`server exited early (${child.exitCode}): ${output.trim().split('\n').slice(-5).join(' | ')}`);
+    }
+    try {
+      const res = await fetch(`${url}/api/health`, { signal: AbortSignal.timeout(5_000) });
+      if (res.ok) {
+        const health = (await res.json()) as { database: string };
+        return { url, database: health.database, output: () => output, stop };
+      }
+    } catch {
+      // not listening yet
+    }
+    if (Date.now() > deadline) {
+      await stop();
+      throw new Error(`server did not answer /api/health within ${(options.readyWithinMs ?? 300_000) / 1000} s: ${output.trim().split('\n').slice(-5).join(' | ')}`);
+    }
+    await new Promise((r) => setTimeout(r, 250));
+  }
+}
