@@ -1,7 +1,7 @@
 import { Router, type RequestHandler } from 'express';
 import multer from 'multer';
 import { idParamsSchema } from '../../shared/api/common.js';
-import { uploadFieldsSchema } from '../../shared/api/uploads.js';
+import { uploadFieldsSchema, uploadListQuerySchema } from '../../shared/api/uploads.js';
 import type { AppContext } from '../context.js';
 import { AppError } from '../errors.js';
 import { userIdOf } from '../middleware/session.js';
@@ -34,6 +34,9 @@ export function uploadRoutes(ctx: AppContext): Router {
       bytes: new Uint8Array(f.buffer.buffer, f.buffer.byteOffset, f.buffer.byteLength),
     }));
     res.status(201).json(await uploads.storeUploads(db, userIdOf(res), workspaceId, files));
+  });
+  router.get('/', async (req, res) => {
+    res.json(await uploads.listUploads(db, userIdOf(res), uploadListQuerySchema.parse(req.query)));
   });
   router.get('/:id', async (req, res) => {
     const { id } = idParamsSchema.parse(req.params);

@@ -1,5 +1,5 @@
 import { createHash } from 'node:crypto';
-import type { UploadMeta, UploadResponse } from '../../shared/api/uploads.js';
+import type { UploadListQuery, UploadListResponse, UploadMeta, UploadResponse } from '../../shared/api/uploads.js';
 import { isEngineError } from '../../shared/errors.js';
 import { sniffRecordingBytes } from '../../shared/recording/sniff.js';
 import type { Db } from '../db/client.js';
@@ -7,6 +7,7 @@ import * as repo from '../db/repositories/uploads.js';
 import { findRole, listMemberships } from '../db/repositories/workspaces.js';
 import { AppError, notFound } from '../errors.js';
 import { assertWorkspace, workspaceAllowsAction } from './policy.js';
+import { recordingFactsOf } from './recording-facts.js';
 
 export interface IncomingFile {
   fileName: string;
@@ -55,6 +56,27 @@ export async function getUploadContent(db: Db, userId: string, uploadId: string)
   const bytes = await repo.readUploadBytes(db, uploadId);
   if (!bytes) throw notFound('Upload');
   return { meta, bytes };
+}
+
+/** A page of the workspace's earlier uploads, newest first; members only (others 404). */
+export async function listUploads(db: Db, userId: string, query: UploadListQuery): Promise<UploadListResponse> {
+  assertWorkspace(await findRole(db, query.workspace, userId), 'read');
+  const { rows, total } = await repo.listWorkspaceUploads(db, query.workspace, query);
+  const uploads: UploadListResponse['uploads'] = [];
+  for (const r of rows) {
+    const facts = await recordingFactsOf(db, r);
+    uploads.push({
+      id: r.id,
+      fileName: r.fileName,
+      size: r.size,
+      format: r.format,
+      device: facts.device,
+      startedAt: facts.startedAt,
+      uploadedAt: r.linkedAt.toISOString(),
+      uploadedBy: r.linkedBy,
+    });
+  }
+  return { uploads, total, offset: query.offset, limit: query.limit };
 }
 
 /** The named workspace (caller must be admin/analyst there), else their first such workspace. */

@@ -39,3 +39,66 @@ export const uploadResponseSchema = z.object({
   uploads: z.array(uploadMetaSchema.extend({ duplicate: z.boolean() })),
 });
 export type UploadResponse = z.infer<typeof uploadResponseSchema>;
+
+/**
+ * Who recorded a file, as its content says (FIT file_id / device_info). Null fields are
+ * not stated in the file; `name` is the one-line form lists show and filter on.
+ */
+export const recordingDeviceSchema = z.object({
+  name: z.string(),
+  manufacturer: z.string().nullable(),
+  product: z.string().nullable(),
+  serialNumber: z.number().nullable(),
+});
+export type RecordingDevice = z.infer<typeof recordingDeviceSchema>;
+
+/**
+ * One line for a device: maker, product and serial, as far as the file states them
+ * ("maker #263" when only the numeric id is known). Null when the file states nothing.
+ *
+ * @example deviceDisplayName({ manufacturer: 'ridgeline', product: 'Spider PM', serialNumber: 4021 }) // 'ridgeline Spider PM · serial 4021'
+ */
+export function deviceDisplayName(d: { manufacturer?: string | null; manufacturerId?: number | null; product?: string | null; productId?: number | null; serialNumber?: number | null }): string | null {
+  const maker = d.manufacturer ?? (d.manufacturerId != null ? `maker #${d.manufacturerId}` : null);
+  const product = d.product ?? (d.productId != null ? `product #${d.productId}` : null);
+  const head = [maker, product].filter(Boolean).join(' ');
+  const parts = [head, d.serialNumber != null ? `serial ${d.serialNumber}` : ''].filter(Boolean);
+  return parts.length > 0 ? parts.join(' · ') : null;
+}
+
+/** Query of GET /api/uploads: one workspace's uploads, a page at a time. */
+export const uploadListQuerySchema = z.object({
+  workspace: idSchema,
+  limit: z.coerce.number().int().min(1).max(100).default(20),
+  offset: z.coerce.number().int().min(0).default(0),
+});
+export type UploadListQuery = z.infer<typeof uploadListQuerySchema>;
+
+/** One earlier upload of a workspace, as pickers list it. */
+export const uploadListItemSchema = z.object({
+  id: idSchema,
+  fileName: z.string(),
+  size: z.number().int().nonnegative(),
+  format: recordingFormatSchema,
+  /** Null when the file does not say (most CSV) or cannot be read. */
+  device: recordingDeviceSchema.nullable(),
+  /** First sample's time; null when the file has no absolute time. */
+  startedAt: isoDateSchema.nullable(),
+  /** When this workspace uploaded it (the same bytes may be shared with another workspace). */
+  uploadedAt: isoDateSchema,
+  /** Null when the uploader's account was deleted. */
+  uploadedBy: z.object({ id: idSchema, name: z.string() }).nullable(),
+});
+export type UploadListItem = z.infer<typeof uploadListItemSchema>;
+
+/**
+ * GET /api/uploads?workspace=<id>&limit=&offset=: newest upload first. Needs read access
+ * to the workspace (any member); anyone else gets 404.
+ */
+export const uploadListResponseSchema = z.object({
+  uploads: z.array(uploadListItemSchema),
+  total: z.number().int().nonnegative(),
+  offset: z.number().int().nonnegative(),
+  limit: z.number().int().positive(),
+});
+export type UploadListResponse = z.infer<typeof uploadListResponseSchema>;

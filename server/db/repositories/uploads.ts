@@ -1,6 +1,6 @@
-import { and, eq, sql } from 'drizzle-orm';
+import { and, desc, eq, inArray, sql } from 'drizzle-orm';
 import type { Db } from '../client.js';
-import { notebook, notebookAccess, notebookRevision, upload, uploadLink, workspaceMember } from '../schema.js';
+import { notebook, notebookAccess, notebookRevision, upload, uploadLink, user, workspaceMember } from '../schema.js';
 
 export interface UploadRecord {
   id: string;
@@ -107,4 +107,34 @@ export async function userCanSeeUpload(db: Db, uploadId: string, userId: string)
     )
     .limit(1);
   return viaNotebook.length > 0;
+}
+
+/** One workspace's link to an upload, with the upload's metadata and who linked it. */
+export interface WorkspaceUploadRecord extends UploadRecord {
+  linkedAt: Date;
+  linkedBy: { id: string; name: string } | null;
+}
+
+/** A page of a workspace's uploads, newest link first, and how many there are in all. */
+export async function listWorkspaceUploads(db: Db, workspaceId: string, page: { limit: number; offset: number }): Promise<{ rows: WorkspaceUploadRecord[]; total: number }> {
+  const rows = await db
+    .select({ ...metaColumns, linkedAt: uploadLink.createdAt, linkedById: user.id, linkedByName: user.name })
+    .from(uploadLink)
+    .innerJoin(upload, eq(upload.id, uploadLink.uploadId))
+    .leftJoin(user, eq(user.id, uploadLink.uploadedBy))
+    .where(eq(uploadLink.workspaceId, workspaceId))
+    .orderBy(desc(uploadLink.createdAt), desc(upload.id))
+    .limit(page.limit)
+    .offset(page.offset);
+  const [counted] = await db.select({ n: sql<number>`count(*)::int` }).from(uploadLink).where(eq(uploadLink.workspaceId, workspaceId));
+  return {
+    rows: rows.map(({ linkedById, linkedByName, ...r }) => ({ ...r, linkedBy: linkedById && linkedByName !== null ? { id: linkedById, name: linkedByName } : null })),
+    total: Number(counted?.n ?? 0),
+  };
+}
+
+/** Metadata of several uploads at once (ids not found are left out). */
+export async function findUploads(db: Db, ids: readonly string[]): Promise<UploadRecord[]> {
+  if (ids.length === 0) return [];
+  return db.select(metaColumns).from(upload).where(inArray(upload.id, [...ids]));
 }
