@@ -21,7 +21,7 @@ describe('route guard', () => {
       import('@/views/SignInView.vue'),
       import('@/views/LibraryView.vue'),
       import('@/views/TeamView.vue'),
-      import('@/views/SharedView.vue'),
+      import('@/views/SharedNotebookView.vue'),
     ]);
   }, 60_000);
 
@@ -49,6 +49,20 @@ describe('route guard', () => {
     await router.push('/s/abc123');
 
     expect(router.currentRoute.value.name).toBe(RouteName.shared);
+  });
+
+  it('opens a shared link, short or long form, in the shared notebook view', async () => {
+    const router = createAppRouter(fakeSession(), createMemoryHistory());
+
+    await router.push('/shared/abc123');
+
+    const route = router.currentRoute.value;
+    expect(route.name).toBe(RouteName.shared);
+    expect(route.params.token).toBe('abc123');
+    // The router swaps a lazy loader for its component once the navigation has loaded it.
+    const view: unknown = route.matched[0]!.components!.default;
+    const loaded = typeof view === 'function' ? ((await (view as () => Promise<{ default: unknown }>)()).default) : view;
+    expect(loaded).toBe((await import('@/views/SharedNotebookView.vue')).default);
   });
 
   it('sends a signed-in user away from sign-in, to the redirect when it is an app path', async () => {
