@@ -1,8 +1,39 @@
 import DOMPurify from 'dompurify';
-import { Marked } from 'marked';
+import { Marked, type Tokens } from 'marked';
 import { computed, toValue, type ComputedRef, type MaybeRefOrGetter } from 'vue';
 
-const marked = new Marked({ gfm: true, breaks: false });
+/**
+ * Raw HTML a note may use: a bare formatting tag, opening or closing, with no attributes
+ * (W/m<sup>2</sup>, <kbd>Esc</kbd>, a forced <br>). Anything else a writer types between
+ * angle brackets is shown as the text it is.
+ */
+const PLAIN_TAG = /^<\/?(b|i|u|s|em|strong|sub|sup|kbd|mark|small|del|ins|br)\s*\/?>$/i;
+
+const ESCAPES: Record<string, string> = { '&': '&amp;', '<': '&lt;', '>': '&gt;', '"': '&quot;', "'": '&#39;' };
+const escapeHtml = (text: string): string => text.replace(/[&<>"']/g, (c) => ESCAPES[c]!);
+
+/**
+ * Raw HTML never reaches an HTML parser as markup. Chromium checks an inline event handler
+ * against the page's Content-Security-Policy the moment any parser tied to the page creates
+ * the attribute - DOMPurify's inert DOMParser document and a <template> included - so a
+ * planted `onerror` would be reported (and blocked) before the sanitiser could drop it.
+ * Escaping it here means the only tags the sanitiser ever parses are marked's own.
+ */
+const marked = new Marked({
+  gfm: true,
+  breaks: false,
+  renderer: {
+    html({ text }: Tokens.HTML | Tokens.Tag): string {
+      const tag = text.trim();
+      return PLAIN_TAG.test(tag) ? tag.toLowerCase().replace(/\s+/g, '') : escapeHtml(text);
+    },
+    // After <script>, <pre>, <code> or <kbd> marked passes the following text through raw
+    // (flagged `escaped`); those tags are text or plain here, so that text is escaped too.
+    text(token: Tokens.Text | Tokens.Escape): string | false {
+      return token.type === 'text' && token.escaped === true && !token.tokens ? escapeHtml(token.text) : false;
+    },
+  },
+});
 
 let purifier: ReturnType<typeof DOMPurify> | undefined;
 
@@ -21,9 +52,10 @@ function getPurifier(): ReturnType<typeof DOMPurify> {
 }
 
 /**
- * Markdown of a note cell as safe HTML: rendered by marked, then sanitised by DOMPurify
- * (no scripts, no event handlers, no javascript: or data: links, no forms, frames or
- * inline styles).
+ * Markdown of a note cell as safe HTML: rendered by marked with raw HTML shown as text
+ * (bare formatting tags excepted), then sanitised by DOMPurify as a second line (no
+ * scripts, no event handlers, no javascript: or data: links, no forms, frames or inline
+ * styles).
  *
  * @example renderMarkdown('**bias** +0.8%') // '<p><strong>bias</strong> +0.8%</p>\n'
  */
