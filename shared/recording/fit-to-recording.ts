@@ -56,7 +56,9 @@ export function fitToRecording(
   let m = 0;
   for (let r = 0; r < n; r++) {
     const rec = records[r]!;
-    const ms = timestampMs(rec.timestamp);
+    const stamp = rec.timestamp;
+    // fit-file-parser gives a Date; the generic helper covers numbers and anything else.
+    const ms = stamp instanceof Date ? stamp.getTime() : timestampMs(stamp);
     if (Number.isNaN(ms)) {
       issues.untimed.push(r);
       continue;
@@ -133,7 +135,7 @@ export function fitToRecording(
       format: 'fit',
       device: fitDeviceIdentity(parsed.file_ids ?? [], parsed.device_infos ?? [], fileIdNumbers, parsed.file_creator),
       startMs: t0,
-      sampleIntervalS: sampleInterval(axis),
+      sampleIntervalS: wholeSecondInterval(axis) ?? sampleInterval(axis),
       totalS: m > 0 ? axis[m - 1]! : 0,
       pausedS: pausedSeconds(events),
       balanceSide: side,
@@ -144,6 +146,29 @@ export function fitToRecording(
     events,
     warnings,
   };
+}
+
+// Spacings up to this many whole seconds are counted in a small table.
+const MAX_COUNTED_STEP_S = 64;
+
+/**
+ * {@link sampleInterval} for the usual FIT axis, whose steps are whole seconds (FIT timestamps
+ * are whole seconds): the same answer (most common step, the shorter on a tie) from a count per
+ * step in a typed array instead of a Map entry per distinct step. undefined when some step is
+ * not a whole number of seconds from 1 to {@link MAX_COUNTED_STEP_S}, or for fewer than two samples.
+ */
+function wholeSecondInterval(time: Float64Array): number | undefined {
+  if (time.length < 2) return undefined;
+  const counts = new Int32Array(MAX_COUNTED_STEP_S + 1);
+  for (let i = 1; i < time.length; i++) {
+    const step = time[i]! - time[i - 1]!;
+    // (step | 0) === step holds only for whole numbers in int32 range (never for NaN).
+    if ((step | 0) !== step || step < 1 || step > MAX_COUNTED_STEP_S) return undefined;
+    counts[step]++;
+  }
+  let best = 1;
+  for (let step = 2; step <= MAX_COUNTED_STEP_S; step++) if (counts[step]! > counts[best]!) best = step;
+  return best;
 }
 
 /** Stores a numeric field unless the sample already has a value (a merged repeat fills gaps only). */

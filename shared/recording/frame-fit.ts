@@ -1,9 +1,9 @@
 /** Where the messages of a FIT file start, found from record headers and definitions alone. */
 export interface FitFrames {
-  /** Byte offset of every data message, in file order. */
-  dataStarts: number[];
+  /** Byte offset of every complete data message, in file order. */
+  dataStarts: Int32Array;
   /** Global message number of every data message (same order). */
-  dataGlobals: number[];
+  dataGlobals: Int32Array;
   /** Byte just after the last complete message. */
   end: number;
   /** Manufacturer and product numbers of the first file_id message (the parser turns them into names). */
@@ -12,65 +12,102 @@ export interface FitFrames {
   failure?: { byte: number; reason: string };
 }
 
+const LOCAL_TYPES = 16;
+// First guess of the bytes per data message (a 1 Hz record is ~10-20): the arrays double when it is wrong.
+const GUESS_MESSAGE_BYTES = 8;
+
 /**
  * Walks the record headers of a FIT file between `headerSize` and `dataEnd` without decoding field
  * values, so a damaged or cut file can be read up to its last complete message, and a problem
  * can be placed at a byte and a record number.
  */
 export function frameFit(bytes: Uint8Array, headerSize: number, dataEnd: number): FitFrames {
-  const sizes = new Map<number, { size: number; global: number; fieldsAt: number; fields: number; littleEndian: boolean }>();
+  // Definitions by local type in flat arrays (no object per definition): size < 0 = never defined.
+  const defSize = new Int32Array(LOCAL_TYPES).fill(-1);
+  const defGlobal = new Int32Array(LOCAL_TYPES);
+  const defFieldsAt = new Int32Array(LOCAL_TYPES);
   let fileId: FitFrames['fileId'];
-  const dataStarts: number[] = [];
-  const dataGlobals: number[] = [];
+  // Typed arrays sized from the byte count, doubled when full and cut to the count at the end.
+  let dataStarts = new Int32Array(Math.max(16, Math.ceil((dataEnd - headerSize) / GUESS_MESSAGE_BYTES)));
+  let dataGlobals = new Int32Array(dataStarts.length);
+  let count = 0;
   let at = headerSize;
-  const stop = (reason: string): FitFrames => ({ dataStarts, dataGlobals, end: at, ...(fileId && { fileId }), failure: { byte: at, reason } });
+  let failure: FitFrames['failure'];
   while (at < dataEnd) {
     const header = bytes[at]!;
     const compressed = (header & 0x80) !== 0;
     const local = compressed ? (header >>> 5) & 0x03 : header & 0x0f;
     if (!compressed && (header & 0x40) !== 0) {
-      if (at + 6 > dataEnd) return stop('a message definition is cut short');
+      if (at + 6 > dataEnd) {
+        failure = { byte: at, reason: 'a message definition is cut short' };
+        break;
+      }
       const littleEndian = bytes[at + 2] === 0;
       const global = littleEndian ? bytes[at + 3]! | (bytes[at + 4]! << 8) : (bytes[at + 3]! << 8) | bytes[at + 4]!;
       const fields = bytes[at + 5]!;
       let next = at + 6 + fields * 3;
-      if (next > dataEnd) return stop('a message definition is cut short');
+      if (next > dataEnd) {
+        failure = { byte: at, reason: 'a message definition is cut short' };
+        break;
+      }
       let size = 0;
       for (let f = 0; f < fields; f++) size += bytes[at + 6 + f * 3 + 1]!;
       if ((header & 0x20) !== 0) {
-        if (next + 1 > dataEnd) return stop('a developer field definition is cut short');
-        const devFields = bytes[next]!;
-        const devEnd = next + 1 + devFields * 3;
-        if (devEnd > dataEnd) return stop('a developer field definition is cut short');
-        for (let f = 0; f < devFields; f++) size += bytes[next + 1 + f * 3 + 1]!;
+        const devEnd = next + 1 > dataEnd ? Infinity : next + 1 + bytes[next]! * 3;
+        if (devEnd > dataEnd) {
+          failure = { byte: at, reason: 'a developer field definition is cut short' };
+          break;
+        }
+        for (let f = next + 1; f < devEnd; f += 3) size += bytes[f + 1]!;
         next = devEnd;
       }
-      sizes.set(local, { size, global, fieldsAt: at + 6, fields, littleEndian });
+      defSize[local] = size;
+      defGlobal[local] = global;
+      defFieldsAt[local] = at;
       at = next;
       continue;
     }
-    const def = sizes.get(local);
-    if (!def) return stop(`a data message uses local type ${local}, which was never defined`);
-    if (at + 1 + def.size > dataEnd) return stop('a data message is cut short');
-    if (def.global === FILE_ID && !fileId) fileId = readFileIdNumbers(bytes, def, at + 1);
-    dataStarts.push(at);
-    dataGlobals.push(def.global);
-    at += 1 + def.size;
+    const size = defSize[local]!;
+    if (size < 0) {
+      failure = { byte: at, reason: `a data message uses local type ${local}, which was never defined` };
+      break;
+    }
+    if (at + 1 + size > dataEnd) {
+      failure = { byte: at, reason: 'a data message is cut short' };
+      break;
+    }
+    const global = defGlobal[local]!;
+    if (count === dataStarts.length) {
+      dataStarts = grow(dataStarts);
+      dataGlobals = grow(dataGlobals);
+    }
+    if (global === FILE_ID && !fileId) fileId = readFileIdNumbers(bytes, defFieldsAt[local]!, at + 1);
+    dataStarts[count] = at;
+    dataGlobals[count++] = global;
+    at += 1 + size;
   }
-  return { dataStarts, dataGlobals, end: at, ...(fileId && { fileId }) };
+  return { dataStarts: dataStarts.subarray(0, count), dataGlobals: dataGlobals.subarray(0, count), end: at, ...(fileId && { fileId }), ...(failure && { failure }) };
 }
 
 const FILE_ID = 0;
 
-/** file_id field 1 = manufacturer (uint16), field 2 = product (uint16), per the FIT profile. */
-function readFileIdNumbers(bytes: Uint8Array, def: { fieldsAt: number; fields: number; littleEndian: boolean }, dataAt: number): FitFrames['fileId'] {
+function grow(a: Int32Array<ArrayBuffer>): Int32Array<ArrayBuffer> {
+  const b = new Int32Array(a.length * 2);
+  b.set(a);
+  return b;
+}
+
+/** file_id field 1 = manufacturer (uint16), field 2 = product (uint16), per the FIT profile. `defAt` = its definition message. */
+function readFileIdNumbers(bytes: Uint8Array, defAt: number, dataAt: number): FitFrames['fileId'] {
   const out: NonNullable<FitFrames['fileId']> = {};
+  const littleEndian = bytes[defAt + 2] === 0;
+  const fields = bytes[defAt + 5]!;
   let offset = dataAt;
-  for (let f = 0; f < def.fields; f++) {
-    const num = bytes[def.fieldsAt + f * 3]!;
-    const size = bytes[def.fieldsAt + f * 3 + 1]!;
+  for (let f = 0; f < fields; f++) {
+    const num = bytes[defAt + 6 + f * 3]!;
+    const size = bytes[defAt + 6 + f * 3 + 1]!;
     if ((num === 1 || num === 2) && size === 2) {
-      const v = def.littleEndian ? bytes[offset]! | (bytes[offset + 1]! << 8) : (bytes[offset]! << 8) | bytes[offset + 1]!;
+      const v = littleEndian ? bytes[offset]! | (bytes[offset + 1]! << 8) : (bytes[offset]! << 8) | bytes[offset + 1]!;
       if (v !== 0xffff) out[num === 1 ? 'manufacturerId' : 'productId'] = v;
     }
     offset += size;

@@ -57,7 +57,7 @@ export async function readFit(bytes: Uint8Array, fileName: string, options: Impo
       where: { file: fileName, byte: readable.end, record: readable.messages },
     });
   }
-  let recordStarts: number[] | undefined;
+  let recordStarts: Int32Array | undefined;
   const recordBytes = (k: number): number | undefined => {
     recordStarts ??= frames.dataStarts.filter((_, i) => frames.dataGlobals[i] === RECORD);
     return recordStarts[k];
