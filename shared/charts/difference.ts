@@ -1,3 +1,4 @@
+import { fullSeriesIfReduced } from './reduce-range.js';
 import { reduceForDisplay } from './reduce-series.js';
 import { DEFAULT_MAX_POINTS, VEGA_LITE_SCHEMA, finiteOrNull, type ChartDevice } from './chart-common.js';
 import { deviceColour } from './palette.js';
@@ -27,7 +28,8 @@ export function differenceSpec(input: DifferenceInput): TopLevelSpec {
     const d = input.test[i]! - input.reference[i]!;
     diff[i] = input.percent ? (100 * d) / input.reference[i]! : d;
   }
-  const r = reduceForDisplay(input.timeS, diff, input.maxPoints ?? DEFAULT_MAX_POINTS);
+  const maxPoints = input.maxPoints ?? DEFAULT_MAX_POINTS;
+  const r = reduceForDisplay(input.timeS, diff, maxPoints);
   const rows: ChartRow[] = Array.from(r.x, (t, i) => ({ t, diff: finiteOrNull(r.y[i]!) }));
   const unit = input.percent ? '%' : 'W';
   return {
@@ -35,6 +37,8 @@ export function differenceSpec(input: DifferenceInput): TopLevelSpec {
     ...(input.title ? { title: input.title } : {}),
     width: 'container',
     data: { values: rows },
+    // The full difference, so a zoomed view is drawn from the original samples (see ChartView).
+    ...fullSeriesIfReduced({ xField: 't', x: Array.from(input.timeS).slice(0, n), series: [{ yField: 'diff', values: Array.from(diff, finiteOrNull) }], maxPoints }),
     layer: [
       { mark: { type: 'rule', color: '#666666' }, encoding: { y: { datum: 0 } } },
       {

@@ -9,3 +9,4 @@ export { scatterIdentitySpec, type ScatterIdentityInput } from './scatter-identi
 export type { ChartRow, TopLevelSpec } from './spec.js';
 export { tracesSpec, type TracesInput } from './traces.js';
 export { validateUserSpec } from './validate-user-spec.js';
+export { FULL_SERIES_KEY, fullSeriesIfReduced, reduceRange, rowsForRange, type ChartFullSeries } from './reduce-range.js';

@@ -1,3 +1,4 @@
+import { fullSeriesIfReduced } from './reduce-range.js';
 import { reduceForDisplay } from './reduce-series.js';
 import { DEFAULT_MAX_POINTS, VEGA_LITE_SCHEMA, deviceScale, finiteOrNull, type ChartDevice } from './chart-common.js';
 import type { ChartRow, TopLevelSpec } from './spec.js';
@@ -20,8 +21,9 @@ export interface TracesInput {
  */
 export function tracesSpec(input: TracesInput): TopLevelSpec {
   const rows: ChartRow[] = [];
+  const maxPoints = input.maxPoints ?? DEFAULT_MAX_POINTS;
   for (const s of input.series) {
-    const r = reduceForDisplay(input.timeS, s.values, input.maxPoints ?? DEFAULT_MAX_POINTS);
+    const r = reduceForDisplay(input.timeS, s.values, maxPoints);
     for (let i = 0; i < r.x.length; i++) rows.push({ t: r.x[i]!, value: finiteOrNull(r.y[i]!), device: s.label });
   }
   return {
@@ -29,6 +31,13 @@ export function tracesSpec(input: TracesInput): TopLevelSpec {
     ...(input.title ? { title: input.title } : {}),
     width: 'container',
     data: { values: rows },
+    // The full series, so a zoomed view is drawn from the original samples (see ChartView).
+    ...fullSeriesIfReduced({
+      xField: 't',
+      x: Array.from(input.timeS),
+      series: input.series.map((s) => ({ yField: 'value', values: Array.from(s.values, finiteOrNull), fields: { device: s.label } })),
+      maxPoints,
+    }),
     mark: { type: 'line', strokeWidth: 1.2 },
     encoding: {
       x: { field: 't', type: 'quantitative', title: 'Time (s)' },
