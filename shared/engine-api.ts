@@ -12,6 +12,8 @@ import type { Recording } from './recording/recording.js';
 export interface EngineRunOptions {
   /** Stop a formula or chart cell after this long, ms (the runner checks; the host also enforces a hard limit). */
   cellTimeLimitMs?: number;
+  /** Cells stopped in an earlier run by ending the worker (unchanged since): reported failed with this error, not computed. */
+  stopped?: Record<string, EngineErrorData>;
 }
 
 /** The result of a run as it crosses the worker boundary (the cache stays in the worker). */

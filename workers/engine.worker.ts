@@ -38,10 +38,11 @@ const api: EngineApi = {
   },
   async runNotebook(document, options = {}, onCellStart) {
     const started = performance.now();
-    const { cellTimeLimitMs } = options;
+    const { cellTimeLimitMs, stopped } = options;
     const result = runNotebook(document, Object.fromEntries(slots), cache, {
       engine: formulaEngine,
       ...(cellTimeLimitMs !== undefined ? { cellTimeLimitMs } : {}),
+      ...(stopped ? { stopped } : {}),
       // A progress report that cannot be delivered must not fail the run.
       ...(onCellStart ? { onCellStart: (id: string) => void Promise.resolve(onCellStart(id)).catch(() => undefined) } : {}),
     });

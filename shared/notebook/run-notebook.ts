@@ -26,6 +26,11 @@ export interface RunNotebookOptions {
   onCellStart?: (cellId: string) => void;
   /** Clock in ms; default Date.now. */
   now?: () => number;
+  /**
+   * Cells the host had to stop in an earlier run (it ended the worker), by cell id, with the
+   * error to show: they are not computed again, so one runaway cell cannot stop every later run.
+   */
+  stopped?: Record<string, EngineErrorData>;
 }
 
 /** The outcome of a run. */
@@ -83,6 +88,11 @@ export function runNotebook(
     const base = { cellId: id, name: cell.name, kind: cell.kind, durationMs: 0, cached: false, warnings: [] as EngineWarning[] };
     if (g.error) {
       outputs[id] = { ...base, state: 'failed', error: g.error };
+      continue;
+    }
+    const stoppedError = options.stopped?.[id];
+    if (stoppedError) {
+      outputs[id] = { ...base, state: 'failed', error: stoppedError };
       continue;
     }
     const upstream = g.dependsOn.find((d) => outputs[d]!.state !== 'fresh');

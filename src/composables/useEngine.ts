@@ -42,6 +42,10 @@ export function createEngineClient(options: EngineClientOptions = {}) {
   let api = Comlink.wrap<EngineApi>(worker);
   // The recordings bound to slots, kept here too so a restarted worker can get them back.
   const bound = new Map<string, Recording>();
+  // Cells that ran out of time and ended the worker, with the cell as it was then: until it
+  // changes, later runs skip it (reported failed) so the other cells still compute.
+  const stopped = new Map<string, { fingerprint: string; error: EngineErrorData }>();
+  const fingerprint = (cell: NotebookDocument['cells'][number]): string => JSON.stringify([cell.name, cell.kind, cell.config]);
 
   const phase = shallowRef<EnginePhase>('idle');
   const runningCellId = shallowRef<string | null>(null);
@@ -73,6 +77,12 @@ export function createEngineClient(options: EngineClientOptions = {}) {
     phase.value = 'running';
     runningCellId.value = null;
     lastError.value = null;
+    const skip: Record<string, EngineErrorData> = {};
+    for (const [id, entry] of stopped) {
+      const cell = document.cells.find((c) => c.id === id);
+      if (cell && fingerprint(cell) === entry.fingerprint) skip[id] = entry.error;
+      else stopped.delete(id);
+    }
     const onCellStart = Comlink.proxy((id: string) => {
       runningCellId.value = id;
     });
@@ -81,7 +91,7 @@ export function createEngineClient(options: EngineClientOptions = {}) {
       timer = setTimeout(() => resolve('timeout'), runTimeLimitMs);
     });
     try {
-      const result = await Promise.race([api.runNotebook(document, { cellTimeLimitMs }, onCellStart), timedOut]);
+      const result = await Promise.race([api.runNotebook(document, { cellTimeLimitMs, ...(stopped.size > 0 ? { stopped: skip } : {}) }, onCellStart), timedOut]);
       if (result !== 'timeout') {
         outputs.value = result.outputs;
         lastRun.value = { durationMs: result.durationMs, computed: result.computed };
@@ -95,8 +105,10 @@ export function createEngineClient(options: EngineClientOptions = {}) {
         ...(cellId ? { where: { cell: cellId } } : {}),
       };
       if (cell) {
+        const onCell: EngineErrorData = { ...error, message: `${error.message}; the engine was restarted, and this cell waits until you change it` };
+        stopped.set(cell.id, { fingerprint: fingerprint(cell), error: onCell });
         const base = { cellId: cell.id, name: cell.name, kind: cell.kind, durationMs: runTimeLimitMs, cached: false, warnings: [] };
-        outputs.value = { ...outputs.value, [cell.id]: { ...base, state: 'failed', error } };
+        outputs.value = { ...outputs.value, [cell.id]: { ...base, state: 'failed', error: onCell } };
       }
       lastError.value = error;
       await restart();

@@ -103,6 +103,16 @@ describe('runNotebook', () => {
     expect(r.outputs['slow']).toMatchObject({ state: 'failed', error: { code: 'formula_timeout', where: { cell: 'slow', line: 2 } } });
   });
 
+  it('does not compute a cell the host stopped earlier, fails it with the given error and blocks its readers', () => {
+    const doc = notebook([formula('a', 'x = 2'), formula('b', 'y = x * 3'), formula('c', 'z = y + 1'), formula('d', 'w = 10')]);
+    const error = { code: 'run_timeout', message: 'stopped after 30 s', where: { cell: 'b' } };
+    const r = runNotebook(doc, {}, undefined, { engine, stopped: { b: error } });
+    expect(r.computed).toEqual(['a', 'd']);
+    expect(r.outputs['b']).toMatchObject({ state: 'failed', error });
+    expect(r.outputs['c']).toMatchObject({ state: 'blocked', blockedBy: { cellId: 'b', reason: 'failed' } });
+    expect(r.outputs['d']).toMatchObject({ state: 'fresh', result: { values: { w: 10 } } });
+  });
+
   it('passes note markdown through for the client to render', () => {
     const r = runNotebook(notebook([{ id: 'n', kind: 'note', config: { markdown: '# Findings' } }]), {}, undefined, { engine });
     expect(r.outputs['n']!.result).toEqual({ type: 'note', markdown: '# Findings' });

@@ -64,6 +64,43 @@ describe('createEngineClient', () => {
     expect(client.phase.value).toBe('idle');
   });
 
+  it('skips the stopped cell in later runs until it changes, so the other cells compute', async () => {
+    const log = { terminated: 0 };
+    const seen: (EngineRunOptions | undefined)[] = [];
+    let first = true;
+    client = createEngineClient({
+      runTimeLimitMs: 100,
+      createWorker: () =>
+        fakeWorker(
+          {
+            bindSlots: async () => undefined,
+            runNotebook: async (_d: NotebookDocument, o?: EngineRunOptions, onCellStart?: (id: string) => void) => {
+              seen.push(o);
+              if (first) {
+                first = false;
+                await onCellStart?.('c2');
+                return new Promise<never>(() => undefined);
+              }
+              return { outputs: {}, order: ['c1', 'c2'], computed: ['c1'], durationMs: 1 };
+            },
+          },
+          log,
+        ),
+    });
+    expect((await client.run(doc)).ok).toBe(false);
+    expect(client.outputs.value['c2']!.error?.message).toMatch(/stopped after 0 s while computing cell "slow"; the engine was restarted, and this cell waits until you change it/);
+    // Another cell edited: the runaway cell is passed as stopped, not computed.
+    const edited: NotebookDocument = { ...doc, cells: [{ ...doc.cells[0]!, config: { source: 'x = 2' } } as NotebookDocument['cells'][number], doc.cells[1]!] };
+    expect((await client.run(edited)).ok).toBe(true);
+    expect(seen[1]?.stopped?.['c2']).toMatchObject({ code: 'run_timeout', where: { cell: 'c2' } });
+    expect(Object.keys(seen[1]?.stopped ?? {})).toEqual(['c2']);
+    // The runaway cell itself changed: it is computed again.
+    const fixed: NotebookDocument = { ...edited, cells: [edited.cells[0]!, { ...doc.cells[1]!, config: { source: 'y = 3' } } as NotebookDocument['cells'][number]] };
+    expect((await client.run(fixed)).ok).toBe(true);
+    expect(seen[2]?.stopped).toBeUndefined();
+    expect(log.terminated).toBe(1);
+  });
+
   it('keeps the outputs of a run that finishes', async () => {
     const log = { terminated: 0 };
     client = createEngineClient({
