@@ -13,10 +13,12 @@ import { ENGINE_WORKER_CSP, isEngineWorkerAsset, originGuard, securityHeaders } 
 import { requireSession } from './middleware/session.js';
 import { exportRoutes } from './routes/exports.js';
 import { healthRoutes } from './routes/health.js';
+import { invitationRoutes } from './routes/invitations.js';
 import { notebookRoutes } from './routes/notebooks.js';
 import { outboxRoutes } from './routes/outbox.js';
 import { publicationRoutes } from './routes/publications.js';
 import { runRoutes } from './routes/runs.js';
+import { sampleRoutes } from './routes/samples.js';
 import { shareRoutes } from './routes/shares.js';
 import { uploadRoutes } from './routes/uploads.js';
 import { workspaceRoutes } from './routes/workspaces.js';
@@ -69,9 +71,11 @@ export function createApp(deps: AppDeps): AppHandle {
   mountAuth(app, ctx);
   app.use('/api', originGuard(deps.config.trustedOrigins), express.json({ limit: JSON_LIMIT }));
   app.use('/api', healthRoutes(ctx));
+  app.use('/api/samples', sampleRoutes());
   const signedIn = requireSession(auth);
   // Working together: these routers check the session per route, as some of their routes are public.
   app.use('/api', exportRoutes(ctx), runRoutes(ctx), shareRoutes(ctx), publicationRoutes(ctx));
+  app.use('/api', invitationRoutes(ctx));
   app.use('/api/workspaces', signedIn, workspaceRoutes(ctx));
   app.use('/api/notebooks', signedIn, notebookRoutes(ctx));
   app.use('/api/uploads', signedIn, uploadRoutes(ctx));

@@ -3,6 +3,7 @@ import { existsSync, mkdirSync, readFileSync, writeFileSync } from 'node:fs';
 import { dirname, join, resolve } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { z } from 'zod';
+import type { S3Settings } from './storage/s3-store.js';
 
 const LOG_LEVELS = ['fatal', 'error', 'warn', 'info', 'debug', 'trace', 'silent'] as const;
 
@@ -34,6 +35,13 @@ const envSchema = z.object({
   SIGN_IN_LIMIT: z.coerce.number().int().positive().default(30),
   /** Create the demo lab and its accounts when the database is empty (set to 0 to skip). */
   SEED_DEMO: z.enum(['0', '1']).default('1'),
+  /** Keep uploads' bytes in this S3-compatible bucket instead of the database (credentials: the usual AWS_* variables). */
+  COGBOOK_S3_BUCKET: z.string().optional().or(z.literal('').transform(() => undefined)),
+  /** An S3-compatible server's URL (path-style requests); unset = AWS S3. */
+  COGBOOK_S3_ENDPOINT: z.url().optional().or(z.literal('').transform(() => undefined)),
+  COGBOOK_S3_REGION: z.string().min(1).default('us-east-1'),
+  /** Key prefix inside the bucket, e.g. "cogbook/". */
+  COGBOOK_S3_PREFIX: z.string().default(''),
   /** Warm worker threads for server-side runs and snapshots (default: two, one on a single core). */
   WORKER_THREADS: z.coerce.number().int().min(1).max(64).optional(),
 });
@@ -53,6 +61,8 @@ export interface Config {
   trustProxy: boolean | number | string;
   signInLimit: number;
   seedDemo: boolean;
+  /** Object store for uploads' bytes; undefined = in the database. */
+  s3: S3Settings | undefined;
   /** Size of the compute pool; undefined = the engine's default. */
   workerThreads: number | undefined;
   /** Repository root (holds drizzle/ and dist/client/), found from this file's location. */
@@ -84,6 +94,9 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env): Config {
     trustProxy: parseTrustProxy(e.TRUST_PROXY),
     signInLimit: e.SIGN_IN_LIMIT,
     seedDemo: e.SEED_DEMO === '1',
+    s3: e.COGBOOK_S3_BUCKET
+      ? { bucket: e.COGBOOK_S3_BUCKET, endpoint: e.COGBOOK_S3_ENDPOINT, region: e.COGBOOK_S3_REGION, prefix: e.COGBOOK_S3_PREFIX }
+      : undefined,
     workerThreads: e.WORKER_THREADS,
     rootDir: findRootDir(),
   };

@@ -12,6 +12,7 @@ import { findUserByEmail } from './db/repositories/users.js';
 import { storeCaughtMail } from './services/outbox.js';
 import { DEMO_ACCOUNTS, DEMO_PASSWORD, seedDemo } from './services/seed.js';
 import { startupErrorLine } from './startup-error.js';
+import { openBlobStore } from './storage/open-blob-store.js';
 
 /** Starts Cogbook: lock, database, migrations, mail, seed, HTTP. Stops cleanly on SIGINT/SIGTERM. */
 async function main(): Promise<void> {
@@ -60,6 +61,7 @@ async function main(): Promise<void> {
     migrationsFolder: join(config.rootDir, 'drizzle'),
   });
   const db = database.db;
+  const blobs = await openBlobStore(db, config.s3);
   if (config.smtpUrl) {
     mailer = createSmtpMailer(config.smtpUrl, config.mailFrom);
   } else {
@@ -83,6 +85,7 @@ async function main(): Promise<void> {
     ...(config.databaseUrl && !process.env.AUTH_SECRET
       ? [`Note: AUTH_SECRET is not set; this process uses ${config.dataDir}/secret. Give every process sharing the database the same AUTH_SECRET.`]
       : []),
+    ...(blobs.kind === 's3' ? [`Uploads are stored in ${blobs.location}.`] : []),
     catcher ? `Mail is caught locally (no SMTP_URL): workspace admins read it under /api/outbox.` : `Mail goes out through SMTP_URL.`,
   ];
   if (seeded || (await findUserByEmail(db, DEMO_ACCOUNTS[0]!.email))) {

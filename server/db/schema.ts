@@ -110,6 +110,31 @@ export const workspaceMember = pgTable(
   (t) => [primaryKey({ columns: [t.workspaceId, t.userId] }), index('workspace_member_user_idx').on(t.userId)],
 );
 
+/**
+ * An e-mailed invitation to join a workspace. Only the SHA-256 of the token is kept, so a
+ * database read does not yield working links. Revoking deletes the row; accepting stamps
+ * accepted_at, after which the link no longer opens.
+ */
+export const workspaceInvitation = pgTable(
+  'workspace_invitation',
+  {
+    id: text('id').primaryKey().$defaultFn(newId),
+    workspaceId: text('workspace_id')
+      .notNull()
+      .references(() => workspace.id, { onDelete: 'cascade' }),
+    /** Lower-cased: the accepting account's e-mail must match it. */
+    email: text('email').notNull(),
+    role: workspaceRole('role').notNull(),
+    tokenHash: text('token_hash').notNull().unique(),
+    invitedBy: text('invited_by').references(() => user.id, { onDelete: 'set null' }),
+    expiresAt: timestamp('expires_at', { withTimezone: true }).notNull(),
+    acceptedAt: timestamp('accepted_at', { withTimezone: true }),
+    acceptedBy: text('accepted_by').references(() => user.id, { onDelete: 'set null' }),
+    createdAt: createdAt(),
+  },
+  (t) => [index('workspace_invitation_workspace_idx').on(t.workspaceId, t.email)],
+);
+
 export const notebook = pgTable(
   'notebook',
   {
@@ -174,7 +199,8 @@ export const upload = pgTable('upload', {
   fileName: text('file_name').notNull(),
   size: integer('size').notNull(),
   format: recordingFormat('format').notNull(),
-  bytes: bytea('bytes').notNull(),
+  /** The original file; null when it lives in the object store under its sha256 (server/storage/). */
+  bytes: bytea('bytes'),
   warnings: jsonb('warnings').notNull().default(sql`'[]'::jsonb`),
   uploadedBy: text('uploaded_by').references(() => user.id, { onDelete: 'set null' }),
   /** Workspace of the first upload; later uploads of the same bytes add an upload_link. */

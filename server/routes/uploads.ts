@@ -1,3 +1,4 @@
+import { pipeline } from 'node:stream/promises';
 import { Router, type RequestHandler } from 'express';
 import multer from 'multer';
 import { idParamsSchema } from '../../shared/api/common.js';
@@ -44,11 +45,12 @@ export function uploadRoutes(ctx: AppContext): Router {
   });
   router.get('/:id/content', async (req, res) => {
     const { id } = idParamsSchema.parse(req.params);
-    const { meta, bytes } = await uploads.getUploadContent(db, userIdOf(res), id);
+    const { meta, stream } = await uploads.openUploadContent(db, userIdOf(res), id);
     res.setHeader('Content-Type', 'application/octet-stream');
+    res.setHeader('Content-Length', String(meta.size));
     res.setHeader('Content-Disposition', `attachment; filename*=UTF-8''${encodeURIComponent(meta.fileName)}`);
     res.setHeader('Cache-Control', 'private, max-age=31536000, immutable');
-    res.send(Buffer.from(bytes.buffer, bytes.byteOffset, bytes.byteLength));
+    await pipeline(stream, res);
   });
   return router;
 }

@@ -1,4 +1,5 @@
 import { createHash } from 'node:crypto';
+import type { Readable } from 'node:stream';
 import type { UploadListQuery, UploadListResponse, UploadMeta, UploadResponse } from '../../shared/api/uploads.js';
 import { isEngineError } from '../../shared/errors.js';
 import { sniffRecordingBytes } from '../../shared/recording/sniff.js';
@@ -56,6 +57,14 @@ export async function getUploadContent(db: Db, userId: string, uploadId: string)
   const bytes = await repo.readUploadBytes(db, uploadId);
   if (!bytes) throw notFound('Upload');
   return { meta, bytes };
+}
+
+/** Like {@link getUploadContent}, streamed from wherever the bytes live. */
+export async function openUploadContent(db: Db, userId: string, uploadId: string): Promise<{ meta: UploadMeta; stream: Readable }> {
+  const meta = await getUploadMeta(db, userId, uploadId);
+  const stream = await repo.openUploadBytes(db, uploadId);
+  if (!stream) throw notFound('Upload');
+  return { meta, stream };
 }
 
 /** A page of the workspace's earlier uploads, newest first; members only (others 404). */

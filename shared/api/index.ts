@@ -8,6 +8,7 @@ export * from './common.js';
 export * from './errors.js';
 export * from './me.js';
 export * from './workspaces.js';
+export * from './invitations.js';
 export * from './notebooks.js';
 export * from './uploads.js';
 export * from './outbox.js';

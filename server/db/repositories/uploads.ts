@@ -1,4 +1,6 @@
+import { Readable } from 'node:stream';
 import { and, desc, eq, inArray, sql } from 'drizzle-orm';
+import { blobStoreOf } from '../../storage/blob-store.js';
 import type { Db } from '../client.js';
 import { notebook, notebookAccess, notebookRevision, upload, uploadLink, user, workspaceMember } from '../schema.js';
 
@@ -36,9 +38,35 @@ export async function findUploadBySha(db: Db, sha256: string): Promise<UploadRec
   return rows[0];
 }
 
+/** The original bytes: from the row, or from the object store when the row holds none. */
 export async function readUploadBytes(db: Db, id: string): Promise<Uint8Array | undefined> {
-  const rows = await db.select({ bytes: upload.bytes }).from(upload).where(eq(upload.id, id));
-  return rows[0]?.bytes;
+  const rows = await db.select({ bytes: upload.bytes, sha256: upload.sha256 }).from(upload).where(eq(upload.id, id));
+  const row = rows[0];
+  if (!row) return undefined;
+  return row.bytes ?? (await externalStore(db, row.sha256).read(row.sha256));
+}
+
+/** Like {@link readUploadBytes}, as a stream (downloads need not hold the file in memory). */
+export async function openUploadBytes(db: Db, id: string): Promise<Readable | undefined> {
+  const rows = await db.select({ bytes: upload.bytes, sha256: upload.sha256 }).from(upload).where(eq(upload.id, id));
+  const row = rows[0];
+  if (!row) return undefined;
+  if (row.bytes) return Readable.from([Buffer.from(row.bytes.buffer, row.bytes.byteOffset, row.bytes.byteLength)]);
+  return externalStore(db, row.sha256).open(row.sha256);
+}
+
+/** Bytes kept in the row itself (the database store). */
+export async function readUploadBytesBySha(db: Db, sha256: string): Promise<Uint8Array | undefined> {
+  const rows = await db.select({ bytes: upload.bytes }).from(upload).where(eq(upload.sha256, sha256));
+  return rows[0]?.bytes ?? undefined;
+}
+
+function externalStore(db: Db, sha256: string) {
+  const store = blobStoreOf(db);
+  if (!store) {
+    throw new Error(`upload ${sha256} is kept in an object store, but none is configured: set COGBOOK_S3_BUCKET (and its endpoint) as when it was uploaded`);
+  }
+  return store;
 }
 
 /**
@@ -57,6 +85,9 @@ export async function storeUpload(
     workspaceId: string;
   },
 ): Promise<{ record: UploadRecord; duplicate: boolean }> {
+  // With an object store the bytes go there first, so no row ever points at missing bytes.
+  const store = blobStoreOf(db);
+  if (store && !(await findUploadBySha(db, input.sha256))) await store.put(input.sha256, input.bytes);
   const inserted = await db
     .insert(upload)
     .values({
@@ -64,7 +95,7 @@ export async function storeUpload(
       fileName: input.fileName,
       size: input.bytes.byteLength,
       format: input.format,
-      bytes: input.bytes,
+      bytes: store ? null : input.bytes,
       warnings: input.warnings,
       uploadedBy: input.uploadedBy,
       workspaceId: input.workspaceId,
