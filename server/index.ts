@@ -12,7 +12,7 @@ import { findUserByEmail } from './db/repositories/users.js';
 import { storeCaughtMail } from './services/outbox.js';
 import { DEMO_ACCOUNTS, DEMO_PASSWORD, seedDemo } from './services/seed.js';
 import { startupErrorLine } from './startup-error.js';
-import { openBlobStore } from './storage/open-blob-store.js';
+import { bindBlobStore, openObjectStore } from './storage/open-blob-store.js';
 
 /** Starts Cogbook: lock, database, migrations, mail, seed, HTTP. Stops cleanly on SIGINT/SIGTERM. */
 async function main(): Promise<void> {
@@ -55,13 +55,15 @@ async function main(): Promise<void> {
   process.on('SIGTERM', () => void stop('SIGTERM'));
   process.on('exit', () => lock?.release());
 
+  // Before the database: a wrong bucket fails fast, and no PGlite folder is opened for nothing.
+  const objectStore = await openObjectStore(config.s3);
   database = await openDatabase({
     databaseUrl: config.databaseUrl,
     pgliteDir: config.databaseUrl ? undefined : pgliteDirOf(config.dataDir),
     migrationsFolder: join(config.rootDir, 'drizzle'),
   });
   const db = database.db;
-  const blobs = await openBlobStore(db, config.s3);
+  const blobs = bindBlobStore(db, objectStore);
   if (config.smtpUrl) {
     mailer = createSmtpMailer(config.smtpUrl, config.mailFrom);
   } else {
