@@ -34,11 +34,15 @@ export async function publish(db: Db, userId: string, notebookId: string, body: 
   return toPublication((await repo.findPublicationOfNotebook(db, notebookId))!, baseUrl);
 }
 
-export async function getPublication(db: Db, userId: string, notebookId: string, baseUrl: string): Promise<Publication> {
+/**
+ * The notebook's publication, or null while it is not published. Not publishing is an
+ * ordinary state of a notebook the reader may see, so it is no error; an unknown notebook,
+ * or one the user may not read, still is (404 from the policy).
+ */
+export async function getPublication(db: Db, userId: string, notebookId: string, baseUrl: string): Promise<Publication | null> {
   assertNotebook(await findNotebookForUser(db, notebookId, userId), 'read');
   const found = await repo.findPublicationOfNotebook(db, notebookId);
-  if (!found) throw notFound('Publication');
-  return toPublication(found, baseUrl);
+  return found ? toPublication(found, baseUrl) : null;
 }
 
 export async function unpublish(db: Db, userId: string, notebookId: string): Promise<void> {

@@ -17,7 +17,11 @@ export const publishedFileParamsSchema = z.object({ slug: publicationSlugSchema,
 export const publishBodySchema = z.object({ allowDownloads: z.boolean().default(false) }).default({ allowDownloads: false });
 export type PublishBody = z.infer<typeof publishBodySchema>;
 
-/** The publication of a notebook as its editors see it. GET /api/notebooks/:id/publication (readers; 404 when unpublished). */
+/**
+ * The publication of a notebook as its editors see it. GET /api/notebooks/:id/publication
+ * (readers) answers 200 with a Publication, or 200 with `null` while the notebook is not
+ * published; 404 only for an unknown notebook or one the user may not read.
+ */
 export const publicationSchema = z.object({
   slug: publicationSlugSchema,
   /** The reader's page (`<BASE_URL>/published/<slug>`). */
@@ -30,6 +34,10 @@ export const publicationSchema = z.object({
   allowDownloads: z.boolean(),
 });
 export type Publication = z.infer<typeof publicationSchema>;
+
+/** The answer of GET /api/notebooks/:id/publication: the publication, or null when unpublished. */
+export const publicationResponseSchema = publicationSchema.nullable();
+export type PublicationResponse = z.infer<typeof publicationResponseSchema>;
 
 /** A recording a reader may download: GET /api/published/:slug/files/:uploadId. */
 export const publishedFileSchema = z.object({

@@ -1,11 +1,12 @@
-import type { PublishBody, Publication, PublishedNotebookResponse } from '../../shared/api/publications.js';
+import type { PublishBody, Publication, PublicationResponse, PublishedNotebookResponse } from '../../shared/api/publications.js';
 import { request } from './http';
 
 const publicationOf = (notebookId: string) => `/api/notebooks/${encodeURIComponent(notebookId)}/publication`;
 
-/** The notebook's publication; ApiError `not_found` (404) while it is not published. */
-export function getPublication(notebookId: string): Promise<Publication> {
-  return request(publicationOf(notebookId));
+/** The notebook's publication, or null while it is not published (404 only for a notebook the user cannot read). */
+export async function getPublication(notebookId: string): Promise<PublicationResponse> {
+  // An empty body would read as undefined: null is the agreed "not published".
+  return (await request<PublicationResponse | undefined>(publicationOf(notebookId))) ?? null;
 }
 
 /** Publishes the current revision, or replaces the published snapshot (the address stays). */

@@ -1,7 +1,6 @@
 import { useMutation, useQuery, useQueryClient } from '@tanstack/vue-query';
 import { computed, toValue, type MaybeRefOrGetter } from 'vue';
 import type { Publication } from '../../shared/api/publications.js';
-import { ApiError } from '@/api/http';
 import { getPublication, getPublished, publish, unpublish } from '@/api/publications';
 import { notebookKeys } from '@/composables/useNotebooks';
 
@@ -14,14 +13,7 @@ export const publicationKeys = {
 export function usePublication(notebookId: MaybeRefOrGetter<string>, enabled: MaybeRefOrGetter<boolean> = true) {
   return useQuery({
     queryKey: computed(() => publicationKeys.of(toValue(notebookId))),
-    queryFn: async (): Promise<Publication | null> => {
-      try {
-        return await getPublication(toValue(notebookId));
-      } catch (e) {
-        if (e instanceof ApiError && e.status === 404) return null;
-        throw e;
-      }
-    },
+    queryFn: (): Promise<Publication | null> => getPublication(toValue(notebookId)),
     enabled: computed(() => toValue(enabled)),
     staleTime: 0,
   });

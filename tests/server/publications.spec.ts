@@ -1,6 +1,6 @@
 import supertest from 'supertest';
 import { afterAll, beforeAll, beforeEach, describe, expect, it } from 'vitest';
-import { publicationSchema, publishedListResponseSchema, publishedNotebookResponseSchema } from '../../shared/api/publications.js';
+import { publicationResponseSchema, publicationSchema, publishedListResponseSchema, publishedNotebookResponseSchema } from '../../shared/api/publications.js';
 import { fitBytes } from './helpers/fixtures.js';
 import { recipeDoc } from './helpers/recipe-notebook.js';
 import { createTestApp, personalWorkspaceOf, signUp, type Agent, type TestApp } from './helpers/test-app.js';
@@ -60,7 +60,7 @@ describe('publishing', () => {
     expect(new Uint8Array(file.body as Buffer)).toEqual(fitBytes(20, 220));
   });
 
-  it('republishing keeps the slug and takes the new revision; unpublish -> 404', async () => {
+  it('republishing keeps the slug and takes the new revision; after unpublishing the page is gone', async () => {
     const first = (await editor.post(`/api/notebooks/${notebookId}/publication`).send({}).expect(200)).body;
     const current = (await editor.get(`/api/notebooks/${notebookId}`)).body;
     await editor.put(`/api/notebooks/${notebookId}`).send({ baseRevision: 1, document: { ...current.document, title: 'Renamed' } }).expect(200);
@@ -71,7 +71,21 @@ describe('publishing', () => {
     expect((await editor.get(`/api/notebooks/${notebookId}/publication`).expect(200)).body.slug).toBe(first.slug);
     await editor.delete(`/api/notebooks/${notebookId}/publication`).expect(204);
     await supertest(t.app).get(`/api/published/${first.slug}`).expect(404);
-    await editor.get(`/api/notebooks/${notebookId}/publication`).expect(404);
+    // Not published is a state, not an error: 200 with null (the publish dialog asks before every publish).
+    const after = await editor.get(`/api/notebooks/${notebookId}/publication`).expect(200);
+    expect(after.headers['content-type']).toMatch(/json/);
+    expect(publicationResponseSchema.parse(after.body)).toBeNull();
     await editor.delete(`/api/notebooks/${notebookId}/publication`).expect(404);
+  });
+
+  it('answers null for a never-published notebook and 404 for an unknown or unreadable one', async () => {
+    const never = await editor.get(`/api/notebooks/${notebookId}/publication`).expect(200);
+    expect(never.text).toBe('null');
+    await editor.get('/api/notebooks/00000000-0000-4000-8000-000000000000/publication').expect(404);
+    const stranger = (await signUp(t, 'stranger@lab.test')).agent;
+    await stranger.get(`/api/notebooks/${notebookId}/publication`).expect(404);
+    await editor.post(`/api/notebooks/${notebookId}/publication`).send({}).expect(200);
+    await stranger.get(`/api/notebooks/${notebookId}/publication`).expect(404);
+    await supertest(t.app).get(`/api/notebooks/${notebookId}/publication`).expect(401);
   });
 });
