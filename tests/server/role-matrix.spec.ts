@@ -3,6 +3,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { createTestApp, personalWorkspaceOf, signUp, type Agent, type TestApp } from './helpers/test-app.js';
 import { fitBytes, notebookDoc } from './helpers/fixtures.js';
 import { recipeDoc } from './helpers/recipe-notebook.js';
+import { inviteAndReadToken } from './helpers/invitation-mail.js';
 
 /**
  * Every route against every kind of caller. The lab workspace W has an admin, an
@@ -81,6 +82,35 @@ const ROUTES: RouteCase[] = [
     name: 'DELETE /api/workspaces/:id/members/:userId',
     expect: [204, 403, 403, 404, 404, 401],
     run: async (a, f) => a.delete(`/api/workspaces/${f.workspaceId}/members/${await disposableMember()}`),
+  },
+  // Invitations by e-mail: only W's admins make, list and revoke them; the link itself opens for anyone.
+  {
+    name: 'POST /api/workspaces/:id/invitations',
+    expect: [201, 403, 403, 404, 404, 401],
+    run: (a, f) => a.post(`/api/workspaces/${f.workspaceId}/invitations`).send({ email: `invitee${++seq}@lab.test`, role: 'viewer' }),
+  },
+  { name: 'GET /api/workspaces/:id/invitations', expect: [ok, 403, 403, 404, 404, 401], run: (a, f) => a.get(`/api/workspaces/${f.workspaceId}/invitations`) },
+  {
+    name: 'DELETE /api/workspaces/:id/invitations/:invitationId',
+    expect: [204, 403, 403, 404, 404, 401],
+    run: async (a, f) => {
+      const made = await fx.agents.admin.post(`/api/workspaces/${f.workspaceId}/invitations`).send({ email: `revoked${++seq}@lab.test`, role: 'viewer' }).expect(201);
+      return a.delete(`/api/workspaces/${f.workspaceId}/invitations/${made.body.id}`);
+    },
+  },
+  { name: 'GET /api/invitations/:token', expect: [ok, ok, ok, ok, ok, ok], run: async (a, f) => a.get(`/api/invitations/${await inviteAndReadToken(t, fx.agents.admin, f.workspaceId, `guest${++seq}@lab.test`)}`) },
+  {
+    // Callers outside W are invited by their own address; W's members (and anon) hold a link for someone else.
+    name: 'POST /api/invitations/:token/accept',
+    expect: [403, 403, 403, ok, ok, 401],
+    run: async (a, f) => {
+      const role = ROLES.find((r) => f.agents[r] === a)!;
+      const email = role === 'nbviewer' || role === 'outsider' ? `${role}@lab.test` : `stranger${++seq}@lab.test`;
+      const res = await a.post(`/api/invitations/${await inviteAndReadToken(t, fx.agents.admin, f.workspaceId, email, 'viewer')}/accept`);
+      // Leave W as it was for the routes after this one.
+      if (res.status === 200) await fx.agents.admin.delete(`/api/workspaces/${f.workspaceId}/members/${f.ids[role]}`).expect(204);
+      return res;
+    },
   },
   { name: 'GET /api/notebooks', expect: [ok, ok, ok, ok, ok, 401], run: (a) => a.get('/api/notebooks') },
   {
