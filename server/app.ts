@@ -18,6 +18,7 @@ import { notebookRoutes } from './routes/notebooks.js';
 import { outboxRoutes } from './routes/outbox.js';
 import { publicationRoutes } from './routes/publications.js';
 import { runRoutes } from './routes/runs.js';
+import { sampleRoutes } from './routes/samples.js';
 import { shareRoutes } from './routes/shares.js';
 import { uploadRoutes } from './routes/uploads.js';
 import { workspaceRoutes } from './routes/workspaces.js';
@@ -70,6 +71,7 @@ export function createApp(deps: AppDeps): AppHandle {
   mountAuth(app, ctx);
   app.use('/api', originGuard(deps.config.trustedOrigins), express.json({ limit: JSON_LIMIT }));
   app.use('/api', healthRoutes(ctx));
+  app.use('/api/samples', sampleRoutes());
   const signedIn = requireSession(auth);
   // Working together: these routers check the session per route, as some of their routes are public.
   app.use('/api', exportRoutes(ctx), runRoutes(ctx), shareRoutes(ctx), publicationRoutes(ctx));

@@ -4,6 +4,7 @@ import { createTestApp, personalWorkspaceOf, signUp, type Agent, type TestApp } 
 import { fitBytes, notebookDoc } from './helpers/fixtures.js';
 import { recipeDoc } from './helpers/recipe-notebook.js';
 import { inviteAndReadToken } from './helpers/invitation-mail.js';
+import { DEMO_SAMPLE_FILES } from '../../shared/demo/sample-files.js';
 
 /**
  * Every route against every kind of caller. The lab workspace W has an admin, an
@@ -146,6 +147,10 @@ const ROUTES: RouteCase[] = [
     expect: [201, 201, 403, 404, 404, 401],
     run: (a, f) => a.post('/api/uploads').field('workspaceId', f.workspaceId).attach('file', Buffer.from(fitBytes(5, 100 + ++seq)), 'ride.fit'),
   },
+  // Earlier uploads of W: any member; a notebook grant alone does not open the workspace's files.
+  { name: 'GET /api/uploads?workspace=', expect: [ok, ok, ok, 404, 404, 401], run: (a, f) => a.get('/api/uploads').query({ workspace: f.workspaceId }) },
+  { name: 'GET /api/samples', expect: [ok, ok, ok, ok, ok, ok], run: (a) => a.get('/api/samples') },
+  { name: 'GET /api/samples/:name', expect: [ok, ok, ok, ok, ok, ok], run: (a) => a.get(`/api/samples/${DEMO_SAMPLE_FILES[0]!.fileName}`) },
   { name: 'GET /api/uploads/:id', expect: [ok, ok, ok, ok, 404, 401], run: (a, f) => a.get(`/api/uploads/${f.uploadId}`) },
   { name: 'GET /api/uploads/:id/content', expect: [ok, ok, ok, ok, 404, 401], run: (a, f) => a.get(`/api/uploads/${f.uploadId}/content`) },
   // Everyone signed in administers their own personal workspace, so each may read the outbox (their own mail only).
