@@ -1,6 +1,7 @@
 import type {
   CreateNotebookBody,
   NotebookAccessResponse,
+  NotebookListItem,
   NotebookMeta,
   NotebookResponse,
   PutNotebookAccessBody,
@@ -12,15 +13,41 @@ import type { NotebookDocument } from '../../shared/notebook/document.js';
 import { migrateNotebookDocument } from '../../shared/notebook/migrate-document.js';
 import type { Db } from '../db/client.js';
 import * as repo from '../db/repositories/notebooks.js';
-import { userCanSeeUpload } from '../db/repositories/uploads.js';
+import { listRuns } from '../db/repositories/runs.js';
+import { findUploads, userCanSeeUpload } from '../db/repositories/uploads.js';
 import { findUsersByEmails } from '../db/repositories/users.js';
 import { findRole } from '../db/repositories/workspaces.js';
 import { AppError, notFound } from '../errors.js';
 import { assertNotebook, assertWorkspace, effectiveNotebookRole, notebookAllows, type NotebookAction } from './policy.js';
+import { recordingFactsOf } from './recording-facts.js';
 import { assertStorableJson } from './storable-json.js';
 
-export async function listNotebooks(db: Db, userId: string, workspaceId?: string): Promise<NotebookMeta[]> {
-  return (await repo.listNotebooksForUser(db, userId, workspaceId)).map(toMeta);
+/**
+ * Every notebook the caller can read, with each input slot's label and the device of the
+ * recording bound to it (read from the file, see recording-facts.ts) and the last run, so
+ * the library can filter by device and by run without opening each notebook.
+ */
+export async function listNotebooks(db: Db, userId: string, workspaceId?: string): Promise<NotebookListItem[]> {
+  const rows = await repo.listNotebooksForUser(db, userId, workspaceId);
+  const slotsOf = new Map<string, NotebookDocument['slots']>();
+  for (const nb of rows) {
+    const rev = await repo.findRevisionDocument(db, nb.id, nb.currentRevision);
+    slotsOf.set(nb.id, rev ? readDocument(rev.document).slots : []);
+  }
+  const boundIds = [...new Set([...slotsOf.values()].flatMap((slots) => slots.map((s) => s.uploadId)).filter((id): id is string => id !== null))];
+  const uploads = new Map((await findUploads(db, boundIds)).map((u) => [u.id, u]));
+  const items: NotebookListItem[] = [];
+  for (const nb of rows) {
+    const inputs: NotebookListItem['inputs'] = [];
+    for (const s of slotsOf.get(nb.id) ?? []) {
+      const bound = s.uploadId ? uploads.get(s.uploadId) : undefined;
+      const facts = bound ? await recordingFactsOf(db, bound) : null;
+      inputs.push({ slot: s.name, label: s.label || s.name, fileName: bound?.fileName ?? null, device: facts?.device ?? null });
+    }
+    const [lastRun] = await listRuns(db, nb.id);
+    items.push({ ...toMeta(nb), inputs, lastRunAt: lastRun ? lastRun.createdAt.toISOString() : null });
+  }
+  return items;
 }
 
 export async function createNotebook(db: Db, userId: string, body: CreateNotebookBody): Promise<NotebookResponse> {

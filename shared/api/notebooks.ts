@@ -1,6 +1,7 @@
 import { z } from 'zod';
 import { notebookDocumentSchema } from '../notebook/document.js';
 import { idSchema, isoDateSchema, userRefSchema } from './common.js';
+import { recordingDeviceSchema } from './uploads.js';
 
 /** A per-notebook grant. The creator holds `owner`; others get `editor` or `viewer`. */
 export const notebookRoleSchema = z.enum(['owner', 'editor', 'viewer']);
@@ -43,8 +44,27 @@ export type NotebookMeta = z.infer<typeof notebookMetaSchema>;
 export const notebookListQuerySchema = z.object({ workspaceId: idSchema.optional() });
 export type NotebookListQuery = z.infer<typeof notebookListQuerySchema>;
 
+/** One input slot of a listed notebook: its label and the recording bound to it, if any. */
+export const notebookListInputSchema = z.object({
+  slot: z.string(),
+  label: z.string(),
+  /** Null when nothing is bound. */
+  fileName: z.string().nullable(),
+  /** Who recorded the bound file, as the file says; null when unbound or not stated. */
+  device: recordingDeviceSchema.nullable(),
+});
+export type NotebookListInput = z.infer<typeof notebookListInputSchema>;
+
+/** A notebook as the library lists it: its metadata, its inputs, and when it last ran headless. */
+export const notebookListItemSchema = notebookMetaSchema.extend({
+  inputs: z.array(notebookListInputSchema),
+  /** Newest saved run (POST .../runs); null when it never ran on the server. */
+  lastRunAt: isoDateSchema.nullable(),
+});
+export type NotebookListItem = z.infer<typeof notebookListItemSchema>;
+
 /** GET /api/notebooks: every notebook the caller can read, most recently updated first. */
-export const notebookListResponseSchema = z.object({ notebooks: z.array(notebookMetaSchema) });
+export const notebookListResponseSchema = z.object({ notebooks: z.array(notebookListItemSchema) });
 export type NotebookListResponse = z.infer<typeof notebookListResponseSchema>;
 
 /** POST /api/notebooks: answers 201 with a {@link NotebookResponse} at revision 1. */
