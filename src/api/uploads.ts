@@ -1,4 +1,4 @@
-import type { UploadMeta, UploadResponse } from '../../shared/api/uploads.js';
+import type { UploadListResponse, UploadMeta, UploadResponse } from '../../shared/api/uploads.js';
 import { ApiError, request, toApiError } from './http';
 
 export interface UploadProgress {
@@ -10,6 +10,8 @@ export interface UploadProgress {
 
 export interface UploadOptions {
   workspaceId?: string;
+  /** Keep a FIT file whose checksum fails or that is cut short (the person chose to). */
+  readDamaged?: boolean;
   onProgress?: (progress: UploadProgress) => void;
   signal?: AbortSignal;
 }
@@ -29,6 +31,7 @@ function parseJson(text: string): unknown {
 export function uploadRecordings(files: readonly File[], options: UploadOptions = {}): Promise<UploadResponse> {
   const form = new FormData();
   if (options.workspaceId) form.append('workspaceId', options.workspaceId);
+  if (options.readDamaged) form.append('readDamaged', 'true');
   for (const file of files) form.append('file', file, file.name);
 
   return new Promise<UploadResponse>((resolve, reject) => {
@@ -58,6 +61,11 @@ export function uploadRecordings(files: readonly File[], options: UploadOptions 
     }
     xhr.send(form);
   });
+}
+
+/** A page of a workspace's earlier uploads, newest first. */
+export function listUploads(workspaceId: string, page: { limit: number; offset: number }, signal?: AbortSignal): Promise<UploadListResponse> {
+  return request('/api/uploads', { query: { workspace: workspaceId, limit: page.limit, offset: page.offset }, signal });
 }
 
 export function getUpload(id: string): Promise<UploadMeta> {
