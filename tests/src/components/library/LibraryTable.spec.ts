@@ -1,10 +1,11 @@
-import { mount } from '@vue/test-utils';
+import { mount, type VueWrapper } from '@vue/test-utils';
+import { Select } from 'ant-design-vue';
 import { describe, expect, it } from 'vitest';
 import { createMemoryHistory, createRouter } from 'vue-router';
-import type { NotebookMeta } from '../../../../shared/api/notebooks.js';
+import type { NotebookListItem } from '../../../../shared/api/notebooks.js';
 import LibraryTable from '@/components/library/LibraryTable.vue';
 
-function notebook(overrides: Partial<NotebookMeta> = {}): NotebookMeta {
+function notebook(overrides: Partial<NotebookListItem> = {}): NotebookListItem {
   return {
     id: 'nb1',
     title: 'Crank vs hub, steady blocks',
@@ -16,11 +17,13 @@ function notebook(overrides: Partial<NotebookMeta> = {}): NotebookMeta {
     forkedFrom: null,
     createdAt: '2026-01-01T10:00:00Z',
     updatedAt: '2026-01-02T10:00:00Z',
+    inputs: [],
+    lastRunAt: null,
     ...overrides,
   };
 }
 
-async function mountTable(props: { notebooks: NotebookMeta[]; canCreate: boolean; userId?: string }) {
+async function mountTable(props: { notebooks: NotebookListItem[]; canCreate: boolean; userId?: string }) {
   const stub = { template: '<div />' };
   const router = createRouter({
     history: createMemoryHistory(),
@@ -103,7 +106,90 @@ describe('LibraryTable filters', () => {
     for (const [text, target] of labels) {
       expect(wrapper.find(`input#${target}`).exists(), text).toBe(true);
     }
-    expect(labels.map(([text]) => text)).toEqual(['Show notebooks', 'Filter by workspace', 'Filter by owner']);
+    expect(labels.map(([text]) => text)).toEqual(['Show notebooks', 'Filter by workspace', 'Filter by owner', 'Filter by device', 'Filter by last run']);
     expect(wrapper.find('.ant-table-filter-trigger').exists()).toBe(false);
+  });
+});
+
+/** Picks a value in one of the toolbar's selects, as choosing an option does. */
+async function pick(wrapper: VueWrapper, id: string, value: string | undefined): Promise<void> {
+  const select = wrapper.findAllComponents(Select).find((c) => c.attributes('id') === id || c.props('id') === id);
+  expect(select, id).toBeDefined();
+  select!.vm.$emit('update:value', value);
+  await wrapper.vm.$nextTick();
+}
+
+const hrefs = (wrapper: VueWrapper) => wrapper.findAll('a').map((a) => a.attributes('href'));
+
+describe('LibraryTable device and last-run filters', () => {
+  const crank = { name: 'Thimble DX crank · serial 77', manufacturer: null, product: 'Thimble DX crank', serialNumber: 77 };
+  const hub = { name: 'Mossgate R1 hub · serial 12', manufacturer: null, product: 'Mossgate R1 hub', serialNumber: 12 };
+  const day = 24 * 60 * 60 * 1000;
+  const lab = [
+    notebook({
+      id: 'nb1',
+      inputs: [
+        { slot: 'reference', label: 'Reference hub', fileName: 'hub.fit', device: hub },
+        { slot: 'test', label: 'Crank under test', fileName: 'crank.fit', device: crank },
+      ],
+      lastRunAt: new Date(Date.now() - 2 * day).toISOString(),
+    }),
+    notebook({
+      id: 'nb2',
+      title: 'Hub alone',
+      inputs: [
+        { slot: 'reference', label: 'Reference', fileName: 'hub2.fit', device: hub },
+        { slot: 'test', label: 'Pedal', fileName: null, device: null },
+      ],
+      lastRunAt: new Date(Date.now() - 90 * day).toISOString(),
+    }),
+    notebook({ id: 'nb3', title: 'No files yet', inputs: [{ slot: 'a', label: 'Left', fileName: 'left.csv', device: null }] }),
+  ];
+
+  it('shows each input with the device of its recording', async () => {
+    const wrapper = await mountTable({ notebooks: lab, canCreate: true });
+    const text = wrapper.text();
+    expect(text).toContain('Reference hub');
+    expect(text).toContain('Thimble DX crank · serial 77');
+    expect(text).toContain('no file');
+    expect(text).toContain('device not stated');
+  });
+
+  it('offers every device once and keeps the notebooks that read a recording of the chosen one', async () => {
+    const wrapper = await mountTable({ notebooks: lab, canCreate: true });
+    const select = wrapper.findAllComponents(Select).find((c) => c.props('id') === 'library-device');
+    expect((select!.props('options') as { value: string }[]).map((o) => o.value)).toEqual([hub.name, crank.name]);
+
+    await pick(wrapper, 'library-device', crank.name);
+    expect(hrefs(wrapper)).toEqual(['/notebooks/nb1']);
+    expect(wrapper.text()).toContain('1 of 3 notebooks');
+
+    await pick(wrapper, 'library-device', hub.name);
+    expect(hrefs(wrapper).sort()).toEqual(['/notebooks/nb1', '/notebooks/nb2']);
+
+    await pick(wrapper, 'library-device', undefined);
+    expect(hrefs(wrapper)).toHaveLength(3);
+  });
+
+  it('filters by when the notebook last ran, and combines with the device filter', async () => {
+    const wrapper = await mountTable({ notebooks: lab, canCreate: true });
+    await pick(wrapper, 'library-last-run', 'week');
+    expect(hrefs(wrapper)).toEqual(['/notebooks/nb1']);
+    await pick(wrapper, 'library-last-run', 'older');
+    expect(hrefs(wrapper)).toEqual(['/notebooks/nb2']);
+    await pick(wrapper, 'library-last-run', 'never');
+    expect(hrefs(wrapper)).toEqual(['/notebooks/nb3']);
+
+    await pick(wrapper, 'library-device', crank.name);
+    expect(wrapper.text()).toContain('No notebook matches these filters.');
+    await wrapper.findAll('button').find((b) => b.text().includes('Clear filters'))!.trigger('click');
+    expect(hrefs(wrapper)).toHaveLength(3);
+  });
+
+  it('links the public sample recordings from the empty library', async () => {
+    const wrapper = await mountTable({ notebooks: [], canCreate: true });
+    const samples = hrefs(wrapper).filter((h) => h?.startsWith('/api/samples/'));
+    expect(samples).toHaveLength(2);
+    expect(wrapper.find('[data-testid="sample-files"] a[download]').exists()).toBe(true);
   });
 });
