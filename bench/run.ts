@@ -1,5 +1,6 @@
 import { writeFile } from 'node:fs/promises';
 import { parseArgs } from 'node:util';
+import { benchBrowser } from './browser.bench.js';
 import { benchCompare } from './compare.bench.js';
 import { formatTable } from './format-table.js';
 import { benchImport } from './import.bench.js';
@@ -18,6 +19,7 @@ const BENCHES: Record<string, Bench> = {
   compare: benchCompare,
   peer: benchPeer,
   load: benchLoad,
+  browser: benchBrowser,
 };
 
 const USAGE = `Usage: npm run bench -- [--only NAME[,NAME]] [--quick]
