@@ -46,6 +46,7 @@ export async function computeNotebook(job: ComputeJob): Promise<ComputeOutcome> 
     const result = await importRecording(input.bytes, input.fileName, {
       ...(mapping.success ? { csvMapping: mapping.data } : {}),
       ...(slot?.label ? { label: slot.label } : {}),
+      ...(slot?.readDamaged ? { readDamaged: true } : {}),
     });
     if (!result.ok) {
       const message = result.error.message.includes(input.fileName) ? result.error.message : `${input.fileName}: ${result.error.message}`;

@@ -28,13 +28,13 @@ export function uploadRoutes(ctx: AppContext): Router {
     });
 
   router.post('/', parseMultipart, async (req, res) => {
-    const { workspaceId } = uploadFieldsSchema.parse(req.body ?? {});
+    const { workspaceId, readDamaged } = uploadFieldsSchema.parse(req.body ?? {});
     const files = ((req.files as Express.Multer.File[] | undefined) ?? []).map((f) => ({
       // multer decodes the part's filename as latin1; browsers send UTF-8.
       fileName: Buffer.from(f.originalname, 'latin1').toString('utf8'),
       bytes: new Uint8Array(f.buffer.buffer, f.buffer.byteOffset, f.buffer.byteLength),
     }));
-    res.status(201).json(await uploads.storeUploads(db, userIdOf(res), workspaceId, files));
+    res.status(201).json(await uploads.storeUploads(db, userIdOf(res), workspaceId, files, { readDamaged: readDamaged === 'true' }));
   });
   router.get('/', async (req, res) => {
     res.json(await uploads.listUploads(db, userIdOf(res), uploadListQuerySchema.parse(req.query)));

@@ -18,13 +18,15 @@ export interface IncomingFile {
 /**
  * Checks every file by content (FIT header, length and CRC; CSV as UTF-8 text) before
  * storing any, so one bad file in a batch stores nothing. Same bytes -> same id.
+ * With `readDamaged` (the person's explicit choice), a FIT file whose checksum fails or that
+ * is cut short is stored with the damage as a warning instead of refused.
  */
-export async function storeUploads(db: Db, userId: string, workspaceId: string | undefined, files: IncomingFile[]): Promise<UploadResponse> {
+export async function storeUploads(db: Db, userId: string, workspaceId: string | undefined, files: IncomingFile[], options: { readDamaged?: boolean } = {}): Promise<UploadResponse> {
   if (files.length === 0) throw new AppError(400, 'no_file', 'Attach at least one file in the multipart field "file".');
   const target = await targetWorkspace(db, userId, workspaceId);
   const checked = files.map((file) => {
     try {
-      return { file, sniff: sniffRecordingBytes(file.bytes, file.fileName) };
+      return { file, sniff: sniffRecordingBytes(file.bytes, file.fileName, { readDamaged: options.readDamaged === true }) };
     } catch (error) {
       if (isEngineError(error)) throw new AppError(415, 'unsupported_file', error.message, { file: file.fileName, reason: error.code, where: error.where });
       throw error;

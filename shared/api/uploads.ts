@@ -26,9 +26,16 @@ export type UploadMeta = z.infer<typeof uploadMetaSchema>;
 /**
  * Text fields of POST /api/uploads (multipart/form-data, one or more parts named
  * `file`). `workspaceId` defaults to the caller's first workspace where they may
- * create notebooks.
+ * create notebooks; `readDamaged` accepts damaged FIT files.
  */
-export const uploadFieldsSchema = z.object({ workspaceId: idSchema.optional() });
+export const uploadFieldsSchema = z.object({
+  workspaceId: idSchema.optional(),
+  /**
+   * "true": the person chose to keep a FIT file whose checksum fails or that is cut short
+   * (stored with a warning; the importer then reads what is intact). Without it such a file is refused (415).
+   */
+  readDamaged: z.enum(['true', 'false']).optional(),
+});
 export type UploadFields = z.infer<typeof uploadFieldsSchema>;
 
 /**

@@ -35,6 +35,8 @@ export const slotSchema = z.object({
   uploadId: z.string().max(64).nullable(),
   /** Remembered CSV column mapping, so the next file of the same shape imports without questions. */
   csvMapping: z.record(z.string(), z.unknown()).optional(),
+  /** Read the bound FIT file even though its checksum fails or it is cut short (keeps what is intact, with a warning). */
+  readDamaged: z.boolean().optional(),
 });
 
 /** The kinds of cell. */

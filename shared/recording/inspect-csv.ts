@@ -1,5 +1,5 @@
 import Papa from 'papaparse';
-import { EngineError, type EngineWarning } from '../errors.js';
+import { EngineError, isEngineError, type EngineWarning } from '../errors.js';
 import { guessHeader } from './csv-guess.js';
 import type { CsvField, CsvMapping } from './csv-mapping.js';
 import { detectTimeFormat } from './csv-time.js';
@@ -40,11 +40,19 @@ export function inspectCsv(text: string, fileName = 'CSV'): CsvInspection {
   const parsed = Papa.parse<string[]>(headOf(text, 64 * 1024), { preview: SAMPLE_ROWS + 1, skipEmptyLines: 'greedy', delimiter: '' });
   const rows = parsed.data;
   const delimiter = normaliseDelimiter(parsed.meta.delimiter);
-  return describeRows(rows, delimiter, fileName, undefined);
+  try {
+    return describeRows(rows, delimiter, fileName, undefined);
+  } catch (error) {
+    // Clashing or unclear power units are settled in the mapping form, so it still gets the
+    // columns: no guess, and the reason as a warning.
+    if (!isEngineError(error) || error.code !== 'mixed_units') throw error;
+    const { code, message, where } = error.toData();
+    return { ...describeRows(rows, delimiter, fileName, undefined, false), warnings: [{ code, message, ...(where ? { where } : {}) }] };
+  }
 }
 
-/** Shared by inspectCsv and parseCsv: header detection, column names and the guessed mapping. */
-export function describeRows(rows: string[][], delimiter: CsvInspection['delimiter'], fileName: string, hasHeaderOverride: boolean | undefined): CsvInspection {
+/** Shared by inspectCsv and parseCsv: header detection, column names and (unless `guess` is false) the guessed mapping. */
+export function describeRows(rows: string[][], delimiter: CsvInspection['delimiter'], fileName: string, hasHeaderOverride: boolean | undefined, guess = true): CsvInspection {
   const first = rows[0] ?? [];
   const hasHeader = hasHeaderOverride ?? first.some((c) => c.trim() !== '' && !Number.isFinite(Number(c.trim().replace(',', '.'))) && detectTimeFormat(c) === undefined);
   const width = rows.reduce((w, r) => Math.max(w, r.length), 0);
@@ -59,7 +67,7 @@ export function describeRows(rows: string[][], delimiter: CsvInspection['delimit
     numeric: data.some((r) => isNumberCell(r[index])) && data.every((r) => isNumberCell(r[index]) || (r[index] ?? '').trim() === ''),
   }));
   const warnings: EngineWarning[] = [];
-  const guessedMapping = guessMapping(names, data, hasHeader, delimiter, fileName, warnings);
+  const guessedMapping = guess ? guessMapping(names, data, hasHeader, delimiter, fileName, warnings) : undefined;
   return { delimiter, hasHeader, columns, previewRows: data.slice(0, PREVIEW_ROWS), guessedMapping, warnings };
 }
 

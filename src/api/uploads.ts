@@ -12,6 +12,8 @@ export interface UploadOptions {
   workspaceId?: string;
   /** Keep a FIT file whose checksum fails or that is cut short (the person chose to). */
   readDamaged?: boolean;
+  /** Keep a FIT file whose checksum fails or that is cut short (the person chose to). */
+  readDamaged?: boolean;
   onProgress?: (progress: UploadProgress) => void;
   signal?: AbortSignal;
 }
@@ -31,6 +33,7 @@ function parseJson(text: string): unknown {
 export function uploadRecordings(files: readonly File[], options: UploadOptions = {}): Promise<UploadResponse> {
   const form = new FormData();
   if (options.workspaceId) form.append('workspaceId', options.workspaceId);
+  if (options.readDamaged) form.append('readDamaged', 'true');
   if (options.readDamaged) form.append('readDamaged', 'true');
   for (const file of files) form.append('file', file, file.name);
 

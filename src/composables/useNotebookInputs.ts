@@ -4,6 +4,7 @@ import type { NotebookSlot } from '../../shared/notebook/document.js';
 import { csvMappingSchema, type CsvMapping } from '../../shared/recording/csv-mapping.js';
 import type { CsvInspection } from '../../shared/recording/inspect-csv.js';
 import type { RecordingMeta } from '../../shared/recording/recording.js';
+import { ApiError } from '@/api/http';
 import { fetchUploadContent, getUpload } from '@/api/uploads';
 import type { EngineClient } from '@/composables/useEngine';
 import { useUploadRecordings } from '@/composables/useUploadRecordings';
@@ -19,6 +20,8 @@ export interface SlotInput {
   /** Upload progress 0..1 (null while the browser does not know the total). */
   progress?: number | null;
   error?: string;
+  /** The error is damage to a FIT file (bad checksum, cut short) that "read damaged file" can get past. */
+  damaged?: boolean;
   warnings: EngineWarning[];
   recording?: RecordingMeta;
   /** For CSV files: columns and first rows, for the mapping form. */
@@ -29,6 +32,12 @@ interface Bytes {
   bytes: Uint8Array;
   fileName: string;
 }
+
+/** Error codes of a damaged FIT file that reading with `readDamaged` gets past. */
+const DAMAGE_CODES = new Set(['fit_crc', 'fit_truncated', 'fit_malformed']);
+
+/** Error codes of a CSV file that mapping its columns by hand can fix (the others are the file's own fault). */
+const MAPPING_CODES = new Set(['csv_needs_mapping', 'csv_mapping_column', 'csv_mapping_invalid', 'no_time_column', 'mixed_units', 'no_power']);
 
 const looksLikeCsv = (fileName: string, bytes: Uint8Array) => /\.(csv|txt|tsv)$/i.test(fileName) || (bytes.length > 12 && String.fromCharCode(...bytes.subarray(8, 12)) !== '.FIT');
 
@@ -62,7 +71,7 @@ export function useNotebookInputs(engine: EngineClient, onBound: () => void) {
   }
 
   async function bind(slot: NotebookSlot): Promise<void> {
-    const key = JSON.stringify([slot.uploadId, slot.csvMapping ?? null]);
+    const key = JSON.stringify([slot.uploadId, slot.csvMapping ?? null, slot.readDamaged ?? false]);
     if (loadedKey.get(slot.name) === key) return;
     loadedKey.set(slot.name, key);
     const stillCurrent = () => loadedKey.get(slot.name) === key;
@@ -87,16 +96,23 @@ export function useNotebookInputs(engine: EngineClient, onBound: () => void) {
         const stored = csvMappingSchema.safeParse(slot.csvMapping);
         mapping = stored.success ? stored.data : inspection.guessedMapping;
         if (!mapping) {
-          slots[slot.name] = { state: 'needs-mapping', uploadId: slot.uploadId, fileName, format: 'csv', warnings: inspection.warnings, csv: inspection };
+          // The importer says why no mapping could be guessed (no time column, no numbers, ...).
+          const attempt = await engine.importRecording(bytes.slice(), fileName, {});
+          if (!stillCurrent()) return;
+          const error = attempt.ok ? undefined : attempt.error.message;
+          const state = attempt.ok || MAPPING_CODES.has(attempt.error.code) ? ('needs-mapping' as const) : ('failed' as const);
+          slots[slot.name] = { state, uploadId: slot.uploadId, fileName, format: 'csv', ...(error ? { error } : {}), warnings: inspection.warnings, csv: inspection };
+          // The worker no longer holds a recording for this slot: let the cells say so.
+          onBound();
           return;
         }
       }
       // A copy: the worker may take ownership of what it is sent.
-      const result = await engine.importRecording(bytes.slice(), fileName, { slot: slot.name, ...(mapping ? { csvMapping: mapping } : {}), label: slot.label });
+      const result = await engine.importRecording(bytes.slice(), fileName, { slot: slot.name, ...(mapping ? { csvMapping: mapping } : {}), ...(slot.readDamaged ? { readDamaged: true } : {}), label: slot.label });
       if (!stillCurrent()) return;
       const common = { uploadId: slot.uploadId, fileName, format: csv ? ('csv' as const) : ('fit' as const), ...(inspection ? { csv: inspection } : {}) };
       if (result.ok) slots[slot.name] = { ...common, state: 'ready', warnings: result.warnings, recording: result.recording.meta };
-      else slots[slot.name] = { ...common, state: csv ? 'needs-mapping' : 'failed', error: result.error.message, warnings: [] };
+      else slots[slot.name] = { ...common, state: csv && MAPPING_CODES.has(result.error.code) ? 'needs-mapping' : 'failed', error: result.error.message, damaged: DAMAGE_CODES.has(result.error.code), warnings: [] };
       onBound();
     } catch (e) {
       if (!stillCurrent()) return;
@@ -112,8 +128,12 @@ export function useNotebookInputs(engine: EngineClient, onBound: () => void) {
     { immediate: true },
   );
 
-  /** Uploads a file and binds it to the slot (one undoable step). */
-  async function upload(slotName: string, file: File): Promise<void> {
+  // A damaged FIT file the server refused, by slot: "read damaged file" sends it again with consent.
+  const refusedDamaged = new Map<string, File>();
+
+  /** Uploads a file and binds it to the slot (one undoable step); `readDamaged` keeps a damaged FIT file. */
+  async function upload(slotName: string, file: File, options: { readDamaged?: boolean } = {}): Promise<void> {
+    refusedDamaged.delete(slotName);
     const before = slots[slotName];
     slots[slotName] = { state: 'uploading', uploadId: before?.uploadId ?? null, fileName: file.name, progress: 0, warnings: [] };
     // One uploader per file: a shared one would cancel the first upload when a second starts.
@@ -123,11 +143,12 @@ export function useNotebookInputs(engine: EngineClient, onBound: () => void) {
       if (s?.state === 'uploading') s.progress = p;
     });
     try {
-      const response = await uploader.upload([file], store.meta?.workspace.id);
+      const response = await uploader.upload([file], store.meta?.workspace.id, options);
       const stored = response.uploads[0]!;
       bytesByUpload.set(stored.id, { bytes: new Uint8Array(await file.arrayBuffer()), fileName: stored.fileName });
       remember(stored.id, stored.fileName);
-      store.updateSlot(slotName, { uploadId: stored.id }, 'attach file');
+      // A new file starts without the damaged-file permission the old one may have had.
+      store.updateSlot(slotName, { uploadId: stored.id, readDamaged: options.readDamaged ? true : undefined }, options.readDamaged ? 'read damaged file' : 'attach file');
       // The same bytes again: the id does not change, so read it again by hand.
       if (before?.uploadId === stored.id) {
         loadedKey.delete(slotName);
@@ -135,19 +156,32 @@ export function useNotebookInputs(engine: EngineClient, onBound: () => void) {
         if (slot) await bind(slot);
       }
     } catch (e) {
-      slots[slotName] = { state: 'failed', uploadId: before?.uploadId ?? null, fileName: file.name, error: errorMessage(e, 'The upload failed.'), warnings: [] };
+      const reason = e instanceof ApiError && e.status === 415 ? (e.details as { reason?: unknown } | undefined)?.reason : undefined;
+      const damaged = typeof reason === 'string' && DAMAGE_CODES.has(reason);
+      if (damaged) refusedDamaged.set(slotName, file);
+      slots[slotName] = { state: 'failed', uploadId: before?.uploadId ?? null, fileName: file.name, error: errorMessage(e, 'The upload failed.'), damaged, warnings: [] };
     } finally {
       stop();
     }
   }
 
   function choose(slotName: string, uploadId: string): void {
-    store.updateSlot(slotName, { uploadId }, 'attach file');
+    store.updateSlot(slotName, { uploadId, readDamaged: undefined }, 'attach file');
+  }
+
+  /**
+   * Reads the slot's damaged FIT file after all, keeping what is intact past a bad checksum or a
+   * cut: uploads it again with consent when the server refused it, else reads the stored file again.
+   */
+  async function readDamaged(slotName: string): Promise<void> {
+    const refused = refusedDamaged.get(slotName);
+    if (refused) return upload(slotName, refused, { readDamaged: true });
+    store.updateSlot(slotName, { readDamaged: true }, 'read damaged file');
   }
 
   function setMapping(slotName: string, mapping: CsvMapping): void {
     store.updateSlot(slotName, { csvMapping: mapping as Record<string, unknown> }, 'map CSV columns');
   }
 
-  return { slots, known, upload, choose, setMapping };
+  return { slots, known, upload, choose, setMapping, readDamaged };
 }

@@ -87,6 +87,14 @@ describe('uploads', () => {
     expect(res.body.error.details.reason).toBe('fit_crc');
   });
 
+  it('keeps a FIT file whose checksum fails when the person chose to read it anyway, with the damage as a warning', async () => {
+    const fit = fitBytes(10);
+    fit[fit.length - 5] = fit[fit.length - 5]! ^ 0xff;
+    const res = await agent.post('/api/uploads').field('readDamaged', 'true').attach('file', Buffer.from(fit), 'damaged-kept.fit').expect(201);
+    expect(res.body.uploads[0].fileName).toBe('damaged-kept.fit');
+    expect(res.body.uploads[0].warnings).toEqual([expect.objectContaining({ code: 'fit_crc', message: expect.stringContaining('damaged-kept.fit: the FIT file checksum fails') })]);
+  });
+
   it('asks for a file when none is attached', async () => {
     const res = await agent.post('/api/uploads').field('workspaceId', workspaceId).expect(400);
     expect(res.body.error.code).toBe('no_file');
