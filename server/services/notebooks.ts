@@ -77,8 +77,8 @@ export async function saveNotebook(db: Db, userId: string, notebookId: string, b
   assertStorableJson(body.document, 'document');
   assertStorableJson(body.summary ?? '', 'summary');
   await assertUploadsVisible(db, userId, body.document);
-  await append(db, userId, notebookId, body.baseRevision, body.document, body.summary ?? '');
-  return getNotebook(db, userId, notebookId);
+  const revision = await append(db, userId, notebookId, body.baseRevision, body.document, body.summary ?? '');
+  return notebookAt(db, userId, notebookId, revision);
 }
 
 export async function deleteNotebook(db: Db, userId: string, notebookId: string): Promise<void> {
@@ -104,8 +104,8 @@ export async function restoreRevision(db: Db, userId: string, notebookId: string
   assertStorableJson(summary ?? '', 'summary');
   const rev = await repo.findRevisionDocument(db, notebookId, revision);
   if (!rev) throw notFound(`Revision ${revision}`);
-  await append(db, userId, notebookId, nb.currentRevision, readDocument(rev.document), summary ?? `Restored revision ${revision}`);
-  return getNotebook(db, userId, notebookId);
+  const written = await append(db, userId, notebookId, nb.currentRevision, readDocument(rev.document), summary ?? `Restored revision ${revision}`);
+  return notebookAt(db, userId, notebookId, written);
 }
 
 export async function getAccess(db: Db, userId: string, notebookId: string): Promise<NotebookAccessResponse> {
@@ -144,7 +144,8 @@ async function reach(db: Db, userId: string, notebookId: string, action: Noteboo
   return nb!;
 }
 
-async function append(db: Db, userId: string, notebookId: string, base: number, document: NotebookDocument, summary: string): Promise<void> {
+/** Appends a revision on `base` and answers its number; 409 when `base` is no longer the current one. */
+async function append(db: Db, userId: string, notebookId: string, base: number, document: NotebookDocument, summary: string): Promise<number> {
   const result = await repo.appendRevision(db, { notebookId, baseRevision: base, title: document.title, document, authorId: userId, summary });
   if (!result.saved) {
     throw new AppError(
@@ -154,6 +155,20 @@ async function append(db: Db, userId: string, notebookId: string, base: number, 
       { currentRevision: result.currentRevision, baseRevision: base },
     );
   }
+  return result.revision;
+}
+
+/**
+ * The answer to a save: the notebook as of the revision that save wrote. Reading the head
+ * instead would hand over a collaborator's revision saved in the meantime, and the editor
+ * would build its next save on it and overwrite that revision without a 409.
+ */
+async function notebookAt(db: Db, userId: string, notebookId: string, revision: number): Promise<NotebookResponse> {
+  const nb = await reach(db, userId, notebookId, 'read');
+  const rev = await repo.findRevisionDocument(db, notebookId, revision);
+  if (!rev) throw new Error(`notebook ${notebookId} has no row for its revision ${revision}`);
+  const document = readDocument(rev.document);
+  return { notebook: { ...toMeta(nb), title: document.title, revision }, revision, document };
 }
 
 /** Stored documents may be of an older format version: bring them to the current one. */
