@@ -66,7 +66,9 @@ export type RecordingDevice = z.infer<typeof recordingDeviceSchema>;
  * @example deviceDisplayName({ manufacturer: 'ridgeline', product: 'Spider PM', serialNumber: 4021 }) // 'ridgeline Spider PM · serial 4021'
  */
 export function deviceDisplayName(d: { manufacturer?: string | null; manufacturerId?: number | null; product?: string | null; productId?: number | null; serialNumber?: number | null }): string | null {
-  const maker = d.manufacturer ?? (d.manufacturerId != null ? `maker #${d.manufacturerId}` : null);
+  // FIT's "development" (id 255) says no registered maker: naming it would only add noise.
+  const named = d.manufacturer === 'development' ? null : d.manufacturer;
+  const maker = named ?? (d.manufacturerId != null && d.manufacturerId !== 255 ? `maker #${d.manufacturerId}` : null);
   const product = d.product ?? (d.productId != null ? `product #${d.productId}` : null);
   const head = [maker, product].filter(Boolean).join(' ');
   const parts = [head, d.serialNumber != null ? `serial ${d.serialNumber}` : ''].filter(Boolean);
