@@ -99,9 +99,9 @@ const PROBE = `(() => {
     const paint = performance.getEntriesByName('first-contentful-paint')[0];
     return Object.assign({}, b.marks, paint ? { fcp: paint.startTime } : {});
   };
-  // Cells that will not become up to date by waiting, with what they say.
+  // Failed cells, with what they say (a waiting cell may only be waiting for its file to load).
   b.stuck = () => [...document.querySelectorAll('[data-cell-id]')]
-    .filter((c) => c.getAttribute('data-state') === 'failed' || c.getAttribute('data-state') === 'blocked')
+    .filter((c) => c.getAttribute('data-state') === 'failed')
     .map((c) => c.getAttribute('data-cell-name') + ': ' + ((c.querySelector('.cell-state') || {}).textContent || '').trim() + ' ' + ((c.querySelector('.cell-output') || {}).textContent || '').trim().slice(0, 200));
   b.states = () => [...document.querySelectorAll('[data-cell-id]')].map((c) => c.getAttribute('data-cell-name') + '=' + c.getAttribute('data-state')).join(' ');
   b.longestTask = (from, to) => b.longTasks.filter(([s, d]) => s + d > from && s < to).reduce((m, [, d]) => Math.max(m, d), 0);
@@ -137,9 +137,9 @@ export async function waitForMark(page: Page, mark: keyof PageMarks, timeoutMs: 
       return { marks: b?.read() ?? {}, stuck: b?.stuck() ?? [], states: b?.states() ?? '' };
     });
     if (marks[mark] !== undefined) return marks;
-    // A failed or waiting cell may still turn (a file still loading): give it a while, then say which.
+    // A failed cell may still turn (an input that changed late): give it a while, then say which.
     stuckSince = stuck.length === 0 ? undefined : (stuckSince ?? Date.now());
-    if (stuckSince !== undefined && Date.now() - stuckSince > 20_000) throw new Error(`cells that do not compute: ${stuck.join('; ')}`);
+    if (stuckSince !== undefined && Date.now() - stuckSince > 60_000) throw new Error(`cells that do not compute: ${stuck.join('; ')}`);
     if (Date.now() > deadline) throw new Error(`page did not reach "${mark}" within ${timeoutMs / 1000} s (marks ${JSON.stringify(marks)}; cells ${states})`);
     await new Promise((r) => setTimeout(r, 100));
   }
