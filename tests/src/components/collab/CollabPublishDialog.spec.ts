@@ -3,7 +3,8 @@ import type { Publication } from '../../../../shared/api/publications.js';
 import CollabPublishDialog from '@/components/collab/CollabPublishDialog.vue';
 import { buttonNamed, click, fakeServer, mountCollab, NOW } from './support';
 
-const NOT_PUBLISHED = { status: 404, body: { error: { code: 'not_found', message: 'Publication not found.' } } };
+// The server answers 200 with null for a notebook that is not published.
+const NOT_PUBLISHED = { body: null };
 
 function publication(overrides: Partial<Publication> = {}): Publication {
   return {
