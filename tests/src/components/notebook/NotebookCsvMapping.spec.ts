@@ -31,6 +31,26 @@ describe('NotebookCsvMapping', { timeout: 30_000 }, () => {
     wrapper.unmount();
   });
 
+  it('labels every select for a screen reader, on the combobox input itself', () => {
+    const inspection = inspectCsv(CSV, 'export.csv');
+    const wrapper = mount(NotebookCsvMapping, { props: { inspection }, attachTo: document.body });
+    const inputs = wrapper.findAll('input[role="combobox"]');
+    // Time column, its format, and what each of the three other columns holds (units only once mapped).
+    expect(inputs.length).toBeGreaterThanOrEqual(5);
+    // A <label for> the input's id, or a <label> wrapping it.
+    const names = inputs.map((input) => {
+      const id = input.attributes('id');
+      const label = (id && document.querySelector(`label[for="${id}"]`)) || input.element.closest('label');
+      return label?.textContent?.trim() ?? '';
+    });
+    expect(names.filter((n) => n === '')).toEqual([]);
+    expect(names).toContain('What watts holds');
+    // One slot's mapping may be open twice on a page (its cell and the inputs panel): ids stay distinct.
+    const ids = wrapper.findAll('.csv-map__columns input[role="combobox"]').map((i) => i.attributes('id'));
+    expect(new Set(ids).size).toBe(ids.length);
+    wrapper.unmount();
+  });
+
   it('will not apply a mapping without a power column', () => {
     const inspection = inspectCsv(CSV, 'export.csv');
     const mapping = { time: { column: 'elapsed', format: 'seconds' as const }, columns: [{ column: 'rpm', field: 'cadence' as const, unit: 'rpm' as const }] };
