@@ -3,7 +3,7 @@ import { describeFigures, type LoadFigures } from './load/figures.js';
 import { loadProblems, runMixedLoad } from './load/mixed.js';
 import { createDatabase, openPostgres } from './load/postgres.js';
 import { findPublishedSlug, runReaders } from './load/readers.js';
-import { startLoadServer, type LoadServer } from './load/server.js';
+import { settle, startLoadServer, type LoadServer } from './load/server.js';
 import type { BenchOptions, BenchRow } from './types.js';
 
 const READERS = 50;
@@ -66,26 +66,33 @@ async function measure(server: LoadServer, label: string, d: Durations, readersA
   const pageKb = (await (await fetch(`${server.url}${page}`)).arrayBuffer()).byteLength / 1024;
   await runReaders({ url: server.url, path: '/api/health', connections: READERS, durationS: d.warmS });
   await runReaders({ url: server.url, path: page, connections: READERS, durationS: d.warmS });
+  await settle(server);
 
-  const health = await runReaders({ url: server.url, path: '/api/health', connections: READERS, durationS: d.readS });
-  const floor = `baseline GET /api/health, ${READERS} connections, ${d.readS} s (${health.perSecond.toFixed(0)}/s, p50 ${health.p50Ms} ms)`;
+  const health = await withCpu(server, () => runReaders({ url: server.url, path: '/api/health', connections: READERS, durationS: d.readS }));
+  await settle(server);
+  const floor = `baseline GET /api/health, ${READERS} connections, ${d.readS} s (${health.perSecond.toFixed(0)}/s, p50 ${health.p50Ms} ms, server CPU ${perRequest(health)})`;
   const rows: BenchRow[] = [];
 
   if (readersAlone) {
-    const reads = await runReaders({ url: server.url, path: page, connections: READERS, durationS: d.readS });
+    const reads = await withCpu(server, () => runReaders({ url: server.url, path: page, connections: READERS, durationS: d.readS }));
     rows.push(
-      throughput(`load ${label}: published page, ${READERS} readers`, reads, health, `${describeFigures(reads)}; ${pageKb.toFixed(0)} kB per page; ${floor}; ratio = page/health throughput, higher is better${clean(reads)}`),
+      throughput(`load ${label}: published page, ${READERS} readers`, reads, health, `${describeFigures(reads)}; ${pageKb.toFixed(0)} kB per page, server CPU ${perRequest(reads)}; ${floor}; ratio = page/health throughput, higher is better${clean(reads)}`),
       latency(`load ${label}: published page p99, ${READERS} readers`, reads, health, `p99 against the health route's p99 under the same load; lower is better`),
     );
+    await settle(server);
   }
 
   const editors = await setUpEditors(server.url, EDITORS, label.toLowerCase());
+  await settle(server);
+  const cpuBefore = server.cpuMs();
   const mixed = await runMixedLoad({ url: server.url, slug, readers: READERS, editors, durationS: d.mixedS, intervalMs: AUTOSAVE_MS });
+  // Includes the audit's reads of each history: a few requests next to thousands.
+  const mixedCpu = `server CPU ${((server.cpuMs() - cpuBefore) / (mixed.reads.requests + mixed.saves.requests)).toFixed(2)} ms/request`;
   const problems = loadProblems(mixed);
   const verdict = problems.length === 0 ? `; ${mixed.audit.acknowledged} acknowledged saves all in the history` : `; CHECK FAILED: ${problems.slice(0, 3).join('; ')}`;
   const offered = EDITORS / (AUTOSAVE_MS / 1000);
   rows.push(
-    throughput(`load ${label}: reads with ${EDITORS} editors saving`, mixed.reads, health, `${describeFigures(mixed.reads)}; ${d.mixedS} s; ${label === 'PGlite' ? '' : `${floor}; `}ratio = page/health throughput${clean(mixed.reads)}`),
+    throughput(`load ${label}: reads with ${EDITORS} editors saving`, mixed.reads, health, `${describeFigures(mixed.reads)}; ${d.mixedS} s, ${mixedCpu}; ${label === 'PGlite' ? '' : `${floor}; `}ratio = page/health throughput${clean(mixed.reads)}`),
     latency(`load ${label}: reads p99 with editors saving`, mixed.reads, health, `p99 against the health route's p99 alone; lower is better`),
     {
       name: `load ${label}: autosaves, ${EDITORS} editors every ${AUTOSAVE_MS / 1000} s + ${READERS} readers`,
@@ -96,7 +103,7 @@ async function measure(server: LoadServer, label: string, d: Durations, readersA
       note: `${describeFigures(mixed.saves)}; baseline = offered rate ${EDITORS}/${AUTOSAVE_MS / 1000} s, ratio 1 = every autosave on time${verdict}`,
     },
     {
-      name: `load ${label}: autosave p50 / p99`,
+      name: `load ${label}: autosave p99`,
       value: mixed.saves.p99Ms,
       unit: 'ms',
       baseline: health.p99Ms,
@@ -105,6 +112,17 @@ async function measure(server: LoadServer, label: string, d: Durations, readersA
     },
   );
   return rows;
+}
+
+/** Figures plus the server's CPU time over the run, so a busy machine's share of the CPU can be told apart from the server's own cost. */
+async function withCpu(server: LoadServer, run: () => Promise<LoadFigures>): Promise<LoadFigures & { cpuMs: number }> {
+  const before = server.cpuMs();
+  const figures = await run();
+  return { ...figures, cpuMs: server.cpuMs() - before };
+}
+
+function perRequest(f: LoadFigures & { cpuMs: number }): string {
+  return `${(f.cpuMs / f.requests).toFixed(2)} ms/request`;
 }
 
 function throughput(name: string, f: LoadFigures, health: LoadFigures, note: string): BenchRow {

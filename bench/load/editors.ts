@@ -15,6 +15,15 @@ export interface Editor {
 }
 
 const PASSWORD = 'load-test-password-1';
+/** A save unanswered after this long counts as an error (the editor would see it hang). */
+const SAVE_TIMEOUT_MS = 60_000;
+
+/** fetch's errors wrap the socket's: name both, e.g. `TypeError: fetch failed (ECONNRESET)`. */
+function describeError(error: unknown): string {
+  if (!(error instanceof Error)) return String(error);
+  const cause = error.cause as { code?: string; message?: string } | undefined;
+  return `${error.name}: ${error.message}${cause ? ` (${cause.code ?? cause.message})` : ''}`;
+}
 
 function headersOf(url: string, address: string, cookie?: string): Record<string, string> {
   // Origin: the server refuses state-changing API calls from other sites.
@@ -117,6 +126,7 @@ export async function runEditors(options: EditorRunOptions): Promise<EditorRun> 
   const latencies: number[] = [];
   const statuses: Record<string, number> = {};
   const misnumbered: string[] = [];
+  const errorSamples: string[] = [];
   let errors = 0;
   const started = performance.now();
   const end = started + options.durationS * 1000;
@@ -135,7 +145,7 @@ export async function runEditors(options: EditorRunOptions): Promise<EditorRun> 
           method: 'PUT',
           headers: headersOf(url, editor.address, editor.cookie),
           body: JSON.stringify({ baseRevision: base, document: documentFor(editor.email, save), summary: `autosave ${save}` }),
-          signal: AbortSignal.timeout(30_000),
+          signal: AbortSignal.timeout(SAVE_TIMEOUT_MS),
         });
         const text = await res.text();
         latencies.push(performance.now() - t0);
@@ -146,8 +156,9 @@ export async function runEditors(options: EditorRunOptions): Promise<EditorRun> 
           editor.acked.push(revision);
           editor.current = revision;
         }
-      } catch {
+      } catch (error) {
         errors++;
+        if (errorSamples.length < 3) errorSamples.push(`${editor.email} save ${save} after ${((performance.now() - t0) / 1000).toFixed(1)} s: ${describeError(error)}`);
       }
       // Autosave fires when due; a slow save pushes the next one back instead of bunching them.
       due = Math.max(due + intervalMs, performance.now());
@@ -165,6 +176,7 @@ export async function runEditors(options: EditorRunOptions): Promise<EditorRun> 
       errors,
       non2xx: Object.entries(statuses).reduce((n, [code, count]) => n + (code.startsWith('2') ? 0 : count), 0),
       statuses,
+      errorSamples,
     },
     misnumbered,
   };

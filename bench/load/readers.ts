@@ -43,7 +43,7 @@ export async function runReaders(options: ReaderOptions): Promise<LoadFigures> {
     url: `${options.url}${options.path}`,
     connections: options.connections,
     duration: options.durationS,
-    timeout: 30,
+    timeout: 60,
     headers: { accept: 'application/json' },
   });
   const statuses: Record<string, number> = {};

@@ -12,6 +12,8 @@ export interface LoadServer {
   database: string;
   /** Everything the process printed, for a failure message. */
   output(): string;
+  /** CPU time the server process has used so far (user + system), ms; NaN where /proc is missing. */
+  cpuMs(): number;
   /** SIGTERM (SIGKILL after 10 s) and removes the temporary data folder. */
   stop(): Promise<void>;
 }
@@ -32,6 +34,35 @@ export function repoRoot(): string {
     const up = dirname(dir);
     if (up === dir) throw new Error('cannot find the Cogbook repository root above bench/load');
     dir = up;
+  }
+}
+
+/**
+ * Waits until the server has worked off what an ended run left queued: a load tool stops
+ * at its deadline, but the server still answers every request it had already read, and
+ * the next run would otherwise start behind that backlog. Settled = under 10 % of one core
+ * over half a second, then one health check answered.
+ */
+export async function settle(server: LoadServer, withinMs = 120_000): Promise<void> {
+  const deadline = Date.now() + withinMs;
+  while (Date.now() < deadline) {
+    const before = server.cpuMs();
+    await new Promise((r) => setTimeout(r, 500));
+    const used = server.cpuMs() - before;
+    if (!(used > 50)) break; // NaN (no /proc) counts as settled
+  }
+  await fetch(`${server.url}/api/health`, { signal: AbortSignal.timeout(withinMs) });
+}
+
+/** utime + stime of a process from /proc/PID/stat (fields 14 and 15, in clock ticks of 10 ms on Linux). */
+function processCpuMs(pid: number | undefined): number {
+  try {
+    const stat = readFileSync(`/proc/${pid}/stat`, 'utf8');
+    // The command name (field 2) may hold spaces: count fields after its closing parenthesis.
+    const fields = stat.slice(stat.lastIndexOf(')') + 2).split(' ');
+    return (Number(fields[11]) + Number(fields[12])) * 10;
+  } catch {
+    return NaN;
   }
 }
 
@@ -106,7 +137,7 @@ export async function startLoadServer(options: LoadServerOptions = {}): Promise<
       const res = await fetch(`${url}/api/health`, { signal: AbortSignal.timeout(5_000) });
       if (res.ok) {
         const health = (await res.json()) as { database: string };
-        return { url, database: health.database, output: () => output, stop };
+        return { url, database: health.database, output: () => output, cpuMs: () => processCpuMs(child.pid), stop };
       }
     } catch {
       // not listening yet
