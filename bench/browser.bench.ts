@@ -38,8 +38,9 @@ export async function benchBrowser(options: BenchOptions): Promise<BenchRow[]> {
   process.chdir(repoPath(''));
   await builtClient();
   const seeded = process.env['COGBOOK_BROWSER_DATA_DIR'];
+  // Seeding the demo lab at a first start takes minutes on a busy machine (COGBOOK_BROWSER_DATA_DIR: a seeded copy).
   log('starting the server (a first start seeds the demo lab) and Chromium');
-  const [server, browser] = await Promise.all([startServer(seeded ? { DATA_DIR: seeded } : {}), launchBrowser()]);
+  const [server, browser] = await Promise.all([startServer(seeded ? { DATA_DIR: seeded } : {}, { readyWithinMs: 10 * 60_000 }), launchBrowser()]);
   try {
     return await measure(server, browser, sizes);
   } catch (error) {
