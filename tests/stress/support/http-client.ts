@@ -14,7 +14,8 @@ export const SIGN_UP_PASSWORD = 'crash-test-password-1';
 /** Wraps a base URL and cookie into a {@link Client}. `origin` defaults to the base URL. */
 export function clientFor(url: string, cookie: string, origin: string = url): Client {
   const call = (path: string, init: RequestInit & { timeoutMs?: number } = {}) => {
-    const { timeoutMs = 30_000, ...rest } = init;
+    // Generous: on a loaded two-core machine a freshly restarted server can take long to answer.
+    const { timeoutMs = 60_000, ...rest } = init;
     const headers = new Headers(rest.headers);
     if (cookie) headers.set('cookie', cookie);
     if (!headers.has('origin')) headers.set('origin', origin);

@@ -2,6 +2,7 @@ import { isDeepStrictEqual } from 'node:util';
 import { NOTEBOOK_SCHEMA_VERSION, type NotebookDocument } from '../../../shared/notebook/document.js';
 import { openCrashSite } from './crash-server.js';
 import { clientFor, createNotebook, personalWorkspace, prng, signUpClient, type Client } from './http-client.js';
+import { checkDataFolder } from './verify-folder.js';
 
 export interface SaveCrashOptions {
   /** SIGKILLs to deliver. */
@@ -16,6 +17,8 @@ export interface SaveCrashOptions {
 export interface SaveCrashReport {
   seed: number;
   kills: number;
+  /** Kills that cut off at least one save still on its way (sent, no answer yet). */
+  killsWithSaveInFlight: number;
   /** Saves answered 200 (each one checked after every restart that followed it). */
   acknowledged: number;
   /** Acknowledged revisions read back with the exact document after the last restart. */
@@ -25,7 +28,11 @@ export interface SaveCrashReport {
   inFlightLost: number;
   /** Restarts whose lock file was left by the killed process and taken over. */
   staleLocksTakenOver: number;
+  /** Tables and b-tree indexes amcheck verified in the folder at the end. */
+  tablesChecked: number;
+  indexesChecked: number;
   restartMs: number[];
+  durationMs: number;
   /** Everything that went wrong; empty when the data survived every crash. */
   problems: string[];
 }
@@ -64,19 +71,23 @@ function documentFor(label: string, random: () => number): NotebookDocument {
  * save cut off by the kill is either absent or stored whole as the next revision.
  */
 export async function runSaveCrashLoop(options: SaveCrashOptions): Promise<SaveCrashReport> {
+  const started = Date.now();
   const random = prng(options.seed);
   const report: SaveCrashReport = {
     seed: options.seed,
     kills: 0,
+    killsWithSaveInFlight: 0,
     acknowledged: 0,
     foundIntact: 0,
     inFlightCommitted: 0,
     inFlightLost: 0,
     staleLocksTakenOver: 0,
+    tablesChecked: 0,
+    indexesChecked: 0,
     restartMs: [],
+    durationMs: 0,
     problems: [],
   };
-  const deadline = Date.now() + options.budgetMs;
   const site = await openCrashSite();
   try {
     let client = await signUpClient(site.server.url, 'crash.saves@lab.test');
@@ -87,6 +98,8 @@ export async function runSaveCrashLoop(options: SaveCrashOptions): Promise<SaveC
       tracks.push({ id: await createNotebook(client, workspaceId), current: 1, acked: new Map() });
     }
     let saveNo = 0;
+    // The budget bounds the kill cycles; creating a fresh folder can take long on a busy machine.
+    const deadline = Date.now() + options.budgetMs;
 
     while (report.kills < options.kills && Date.now() < deadline) {
       let alive = true;
@@ -127,6 +140,7 @@ export async function runSaveCrashLoop(options: SaveCrashOptions): Promise<SaveC
       alive = false;
       await Promise.all(writers);
       report.kills++;
+      if (tracks.some((t) => t.pending)) report.killsWithSaveInFlight++;
 
       if (site.staleLockLeft() && site.lockPid() === pidBefore) report.staleLocksTakenOver++;
       else report.problems.push(`kill ${report.kills}: no lock file of pid ${pidBefore} was left behind`);
@@ -141,9 +155,21 @@ export async function runSaveCrashLoop(options: SaveCrashOptions): Promise<SaveC
       if (report.problems.length > 0) break;
     }
     report.foundIntact = await checkEveryRevision(client, tracks, report);
+    await site.server.stop();
+    const folder = await checkDataFolder(site.dataDir, report.problems, async (db) => {
+      // The stored history itself, not only what the API shows: one row per revision 1..current.
+      for (const track of tracks) {
+        const { rows } = await db.query<{ n: number; top: number }>('SELECT count(*)::int AS n, max(revision)::int AS top FROM notebook_revision WHERE notebook_id = $1', [track.id]);
+        const got = rows[0];
+        if (got?.n !== track.current || got.top !== track.current) report.problems.push(`${track.id}: the database holds ${got?.n} revisions up to ${got?.top}, expected 1..${track.current}`);
+      }
+    });
+    report.tablesChecked = folder.tablesChecked;
+    report.indexesChecked = folder.indexesChecked;
   } finally {
     await site.close(report.problems.length > 0);
     if (report.problems.length > 0) report.problems.push(`data folder kept for inspection: ${site.dataDir}`);
+    report.durationMs = Date.now() - started;
   }
   return report;
 }
