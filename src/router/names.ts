@@ -10,6 +10,7 @@ export const RouteName = {
   published: 'published',
   team: 'team',
   outbox: 'outbox',
+  invitation: 'invitation',
   notFound: 'not-found',
 } as const;
 

@@ -71,6 +71,14 @@ export const routes: RouteRecordRaw[] = [
     meta: { access: 'admin-any', title: 'Outbox' },
   },
   {
+    // The link in an invitation mail; signed-out visitors see it too and go to sign in or up from here.
+    path: '/invitations/:token',
+    name: RouteName.invitation,
+    component: () => import('@/views/InvitationView.vue'),
+    props: true,
+    meta: { access: 'public', title: 'Invitation' },
+  },
+  {
     path: '/:pathMatch(.*)*',
     name: RouteName.notFound,
     component: () => import('@/views/NotFoundView.vue'),

@@ -50,6 +50,10 @@ describe('inviting by e-mail', () => {
     const [row] = await t.database.db.select().from(workspaceInvitation);
     expect(row!.tokenHash).toBe(createHash('sha256').update(mail.token).digest('hex'));
     expect(JSON.stringify(row)).not.toContain(mail.token);
+    // The local outbox shows the inviting workspace's admins the mail (the address is no member yet), nobody else.
+    const inOutbox = async (agent: Agent) => ((await agent.get('/api/outbox').expect(200)).body.messages as { to: string }[]).map((m) => m.to);
+    expect(await inOutbox(admin)).toContain('new.rider@lab.test');
+    expect(await inOutbox(outsider)).not.toContain('new.rider@lab.test');
   });
 
   it('shows the link to anyone holding it: workspace, inviter, role; never cached', async () => {

@@ -1,6 +1,6 @@
-import { and, desc, eq, inArray, sql } from 'drizzle-orm';
+import { and, desc, eq, inArray, or, sql } from 'drizzle-orm';
 import type { Db } from '../client.js';
-import { mailMessage, user, workspaceMember } from '../schema.js';
+import { mailMessage, user, workspaceInvitation, workspaceMember } from '../schema.js';
 
 export interface MailRecord {
   id: string;
@@ -19,13 +19,13 @@ export async function insertMail(db: Db, mail: Omit<MailRecord, 'id' | 'createdA
 
 /**
  * Mail addressed to members of the workspaces `adminUserId` administers (themselves
- * included), newest first. Addresses are compared lower-cased.
+ * included) or to addresses invited into them, newest first. Addresses are compared lower-cased.
  */
 export async function listMailForAdmin(db: Db, adminUserId: string, limit = 200): Promise<MailRecord[]> {
   return db
     .select()
     .from(mailMessage)
-    .where(inArray(sql`lower(${mailMessage.to})`, administeredEmails(db, adminUserId)))
+    .where(addressedToAdministered(db, adminUserId))
     .orderBy(desc(mailMessage.createdAt))
     .limit(limit);
 }
@@ -35,16 +35,34 @@ export async function findMailForAdmin(db: Db, adminUserId: string, id: string):
   const rows = await db
     .select()
     .from(mailMessage)
-    .where(and(eq(mailMessage.id, id), inArray(sql`lower(${mailMessage.to})`, administeredEmails(db, adminUserId))));
+    .where(and(eq(mailMessage.id, id), addressedToAdministered(db, adminUserId)));
   return rows[0];
+}
+
+/** To a member of, or an address invited into, a workspace the user administers. */
+function addressedToAdministered(db: Db, adminUserId: string) {
+  const to = sql`lower(${mailMessage.to})`;
+  return or(inArray(to, administeredEmails(db, adminUserId)), inArray(to, invitedEmails(db, adminUserId)));
+}
+
+function adminWorkspaces(db: Db, adminUserId: string) {
+  return db
+    .select({ workspaceId: workspaceMember.workspaceId })
+    .from(workspaceMember)
+    .where(sql`${workspaceMember.userId} = ${adminUserId} and ${workspaceMember.role} = 'admin'`);
+}
+
+/** Addresses invited into the workspaces the user administers (stored lower-cased; a subquery). */
+function invitedEmails(db: Db, adminUserId: string) {
+  return db
+    .select({ email: workspaceInvitation.email })
+    .from(workspaceInvitation)
+    .where(inArray(workspaceInvitation.workspaceId, adminWorkspaces(db, adminUserId)));
 }
 
 /** E-mails of every member of the workspaces the user administers (a subquery). */
 function administeredEmails(db: Db, adminUserId: string) {
-  const adminOf = db
-    .select({ workspaceId: workspaceMember.workspaceId })
-    .from(workspaceMember)
-    .where(sql`${workspaceMember.userId} = ${adminUserId} and ${workspaceMember.role} = 'admin'`);
+  const adminOf = adminWorkspaces(db, adminUserId);
   return db
     .select({ email: user.email })
     .from(user)
