@@ -44,8 +44,8 @@ export function fitToRecording(
   const records = parsed.records ?? [];
   const n = records.length;
   const time = new Float64Array(n);
-  const cols = PLAIN_FIELDS.map(() => new Float64Array(n).fill(NaN));
-  const seen = PLAIN_FIELDS.map(() => false);
+  // A column is made when its field first appears: a file rarely has all eight.
+  const cols: (Float64Array | undefined)[] = PLAIN_FIELDS.map(() => undefined);
   const balance = new Float64Array(n).fill(NaN);
   let rightCount = 0;
   let unknownCount = 0;
@@ -73,7 +73,7 @@ export function fitToRecording(
       if (m >= 2 && ms > t0 + time[m - 2]! * 1000) {
         m--;
         issues.jumps.push(keptRecord[m]!);
-        for (const col of cols) col[m] = NaN;
+        for (const col of cols) if (col) col[m] = NaN;
         balance[m] = NaN;
         k = m;
         time[m++] = (ms - t0) / 1000;
@@ -91,14 +91,14 @@ export function fitToRecording(
     }
     // Named reads (not a loop over field names) keep the property loads monomorphic in this hot loop.
     const speed = rec.speed ?? rec.enhanced_speed;
-    if (take(cols[0]!, k, rec.power)) seen[0] = true;
-    if (take(cols[1]!, k, rec.cadence)) seen[1] = true;
-    if (take(cols[2]!, k, speed)) seen[2] = true;
-    if (take(cols[3]!, k, rec.heart_rate)) seen[3] = true;
-    if (take(cols[4]!, k, rec.left_torque_effectiveness)) seen[4] = true;
-    if (take(cols[5]!, k, rec.right_torque_effectiveness)) seen[5] = true;
-    if (take(cols[6]!, k, rec.left_pedal_smoothness)) seen[6] = true;
-    if (take(cols[7]!, k, rec.right_pedal_smoothness)) seen[7] = true;
+    take(cols, 0, n, k, rec.power);
+    take(cols, 1, n, k, rec.cadence);
+    take(cols, 2, n, k, speed);
+    take(cols, 3, n, k, rec.heart_rate);
+    take(cols, 4, n, k, rec.left_torque_effectiveness);
+    take(cols, 5, n, k, rec.right_torque_effectiveness);
+    take(cols, 6, n, k, rec.left_pedal_smoothness);
+    take(cols, 7, n, k, rec.right_pedal_smoothness);
     const lrb = rec.left_right_balance as { value?: unknown; right?: unknown } | number | undefined;
     if (lrb !== undefined && Number.isNaN(balance[k]!)) {
       const value = typeof lrb === 'number' ? lrb & 0x7f : Number(lrb.value);
@@ -114,7 +114,8 @@ export function fitToRecording(
   reportTimeIssues(issues, fileName, warnings, recordBytes);
   const columns: RecordingColumns = {};
   PLAIN_FIELDS.forEach(([, name], f) => {
-    if (seen[f]) columns[name] = m < n ? cols[f]!.slice(0, m) : cols[f]!;
+    const col = cols[f];
+    if (col) columns[name] = m < n ? col.slice(0, m) : col;
   });
   const side = settleBalance(balance, m, rightCount, unknownCount, fileName, warnings);
   if (side !== 'none') {
@@ -148,34 +149,45 @@ export function fitToRecording(
   };
 }
 
-// Spacings up to this many whole seconds are counted in a small table.
+// Spacings up to this many whole seconds are counted one by one; longer ones (pauses) together.
 const MAX_COUNTED_STEP_S = 64;
 
 /**
  * {@link sampleInterval} for the usual FIT axis, whose steps are whole seconds (FIT timestamps
  * are whole seconds): the same answer (most common step, the shorter on a tie) from a count per
- * step in a typed array instead of a Map entry per distinct step. undefined when some step is
- * not a whole number of seconds from 1 to {@link MAX_COUNTED_STEP_S}, or for fewer than two samples.
+ * step in a typed array instead of a Map entry per distinct step. undefined (ask sampleInterval)
+ * when some step is not a whole number of seconds, when the long steps together are as common
+ * as the winner (one of them might be the answer), or for fewer than two samples.
  */
 function wholeSecondInterval(time: Float64Array): number | undefined {
   if (time.length < 2) return undefined;
   const counts = new Int32Array(MAX_COUNTED_STEP_S + 1);
+  let long = 0;
   for (let i = 1; i < time.length; i++) {
     const step = time[i]! - time[i - 1]!;
     // (step | 0) === step holds only for whole numbers in int32 range (never for NaN).
-    if ((step | 0) !== step || step < 1 || step > MAX_COUNTED_STEP_S) return undefined;
-    counts[step]++;
+    if ((step | 0) !== step || step < 1) return undefined;
+    if (step > MAX_COUNTED_STEP_S) long++;
+    else counts[step]++;
   }
   let best = 1;
   for (let step = 2; step <= MAX_COUNTED_STEP_S; step++) if (counts[step]! > counts[best]!) best = step;
-  return best;
+  return long < counts[best]! ? best : undefined;
 }
 
-/** Stores a numeric field unless the sample already has a value (a merged repeat fills gaps only). */
-function take(col: Float64Array, k: number, v: unknown): boolean {
-  if (typeof v !== 'number' || col[k] === col[k]) return false;
+/**
+ * Stores a numeric field in column `f` (made, all NaN, on the field's first value) unless the
+ * sample already has a value (a merged repeat fills gaps only).
+ */
+function take(cols: (Float64Array | undefined)[], f: number, n: number, k: number, v: unknown): void {
+  if (typeof v !== 'number') return;
+  let col = cols[f];
+  if (col === undefined) {
+    col = new Float64Array(n).fill(NaN);
+    cols[f] = col;
+  }
+  if (col[k] === col[k]) return;
   col[k] = v;
-  return true;
 }
 
 function settleBalance(balance: Float64Array, m: number, rightCount: number, unknownCount: number, fileName: string, warnings: EngineWarning[]): BalanceSide {
