@@ -88,6 +88,20 @@ export function freePort(): Promise<number> {
  * (the app's and better-auth's 3 per 10 s) then count per editor, not for all at once.
  */
 export async function startLoadServer(options: LoadServerOptions = {}): Promise<LoadServer> {
+  // The free port can be taken between probing it and the server binding it (other
+  // processes on the machine start servers too): try again on another one.
+  for (let attempt = 1; ; attempt++) {
+    try {
+      return await startOnce(options);
+    } catch (error) {
+      if (attempt >= 3 || !(error instanceof PortTakenError)) throw error;
+    }
+  }
+}
+
+class PortTakenError extends Error {}
+
+async function startOnce(options: LoadServerOptions): Promise<LoadServer> {
   const root = repoRoot();
   const entry = join(root, 'dist/node/server/index.js');
   if (!existsSync(entry)) throw new Error(`${entry} is missing: run npm run build:node first`);
@@ -131,7 +145,8 @@ export async function startLoadServer(options: LoadServerOptions = {}): Promise<
   for (;;) {
     if (child.exitCode !== null) {
       await stop();
-      throw new Error(`server exited early (${child.exitCode}): ${output.trim().split('\n').slice(-5).join(' | ')}`);
+      const message = `server exited early (${child.exitCode}): ${output.trim().split('\n').slice(-5).join(' | ')}`;
+      throw /already in use/.test(output) ? new PortTakenError(message) : new Error(message);
     }
     try {
       const res = await fetch(`${url}/api/health`, { signal: AbortSignal.timeout(5_000) });
