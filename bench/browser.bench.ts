@@ -40,7 +40,16 @@ export async function benchBrowser(options: BenchOptions): Promise<BenchRow[]> {
   const seeded = process.env['COGBOOK_BROWSER_DATA_DIR'];
   // Seeding the demo lab at a first start takes minutes on a busy machine (COGBOOK_BROWSER_DATA_DIR: a seeded copy).
   log('starting the server (a first start seeds the demo lab) and Chromium');
-  const [server, browser] = await Promise.all([startServer(seeded ? { DATA_DIR: seeded } : {}, { readyWithinMs: 10 * 60_000 }), launchBrowser()]);
+  const started = await Promise.allSettled([startServer(seeded ? { DATA_DIR: seeded } : {}, { readyWithinMs: 10 * 60_000 }), launchBrowser()]);
+  const [serverStart, browserStart] = started;
+  if (serverStart.status === 'rejected' || browserStart.status === 'rejected') {
+    // Whichever did start must stop, or its process keeps this one alive.
+    if (serverStart.status === 'fulfilled') await serverStart.value.stop();
+    if (browserStart.status === 'fulfilled') await browserStart.value.close();
+    throw serverStart.status === 'rejected' ? serverStart.reason : (browserStart as PromiseRejectedResult).reason;
+  }
+  const server = serverStart.value;
+  const browser = browserStart.value;
   try {
     return await measure(server, browser, sizes);
   } catch (error) {
