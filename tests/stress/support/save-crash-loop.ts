@@ -131,9 +131,10 @@ export async function runSaveCrashLoop(options: SaveCrashOptions): Promise<SaveC
         }
       };
       const writers = tracks.map(writer);
-      // Kill at a random moment once saves flow: 0-600 ms after the first acknowledgement.
+      // Kill at a random moment once saves flow: 0-600 ms after the first acknowledgement of this
+      // cycle (a busy machine may need long for it; every kill follows one, so acknowledged > kills).
       const waitStart = Date.now();
-      while (ackedThisCycle === 0 && Date.now() - waitStart < 20_000) await new Promise((r) => setTimeout(r, 2));
+      while (ackedThisCycle === 0 && Date.now() - waitStart < 120_000) await new Promise((r) => setTimeout(r, 2));
       await new Promise((r) => setTimeout(r, Math.floor(random() * 600)));
       const pidBefore = site.server.child.pid;
       await site.kill();

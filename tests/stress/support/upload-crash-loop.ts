@@ -147,7 +147,7 @@ export async function runUploadCrashLoop(options: UploadCrashOptions): Promise<U
       const uploaders = Array.from({ length: options.uploaders ?? 3 }, uploader);
       // Kill at a random moment once uploads flow: 0-800 ms after the first acknowledgement.
       const waitStart = Date.now();
-      while (ackedThisCycle === 0 && Date.now() - waitStart < 60_000) await new Promise((r) => setTimeout(r, 2));
+      while (ackedThisCycle === 0 && Date.now() - waitStart < 120_000) await new Promise((r) => setTimeout(r, 2));
       await new Promise((r) => setTimeout(r, Math.floor(random() * 800)));
       const pidBefore = site.server.child.pid;
       await site.kill();
