@@ -1,4 +1,5 @@
 import { readFile } from 'node:fs/promises';
+import { availableParallelism, loadavg } from 'node:os';
 import { basename } from 'node:path';
 import { isMainThread, parentPort, Worker, workerData } from 'node:worker_threads';
 import type { ImportResult } from '../../shared/recording/import-result.js';
@@ -85,12 +86,12 @@ type ReadAnswer = { ok: true; recording: Recording } | { ok: false; message: str
  * a multi-core machine while this thread goes on (loading the engine), and the decoder's
  * garbage (fit-file-parser builds objects for every message) stays out of the heap the
  * comparison then runs in. CSV is read here: its reader is quick, and a worker would load
- * it (and its schema library) once more. Run from the TypeScript sources (tsx), a worker could
- * not load them, so everything is read here.
+ * it (and its schema library) once more. On a busy machine (see hasIdleCore), or run from the
+ * TypeScript sources (tsx), whose worker could not load them, everything is read here.
  */
 async function readRecordings(paths: string[], files: Uint8Array[]): Promise<Recording[]> {
   const fitBytes = files.reduce((sum, f) => sum + (looksLikeFit(f) ? f.length : 0), 0);
-  const useWorkers = fitBytes >= PARALLEL_FIT_BYTES && import.meta.url.endsWith('.js');
+  const useWorkers = fitBytes >= PARALLEL_FIT_BYTES && import.meta.url.endsWith('.js') && hasIdleCore();
   const pending = paths.map((path, i) => {
     const job = { path, bytes: files[i]! };
     return useWorkers && looksLikeFit(job.bytes) ? settleLater(readInWorker(job)) : undefined;
@@ -102,6 +103,16 @@ async function readRecordings(paths: string[], files: Uint8Array[]): Promise<Rec
     recordings.push(answer.recording);
   }
   return recordings;
+}
+
+/**
+ * Whether another thread would run beside this one: a worker pays only on a core that is free.
+ * The load average includes this process (about 1 on an otherwise quiet machine); on a machine
+ * already busy (within half a core of the core count) a worker would add an isolate's start-up
+ * to the same share of CPU, so the files are read here.
+ */
+function hasIdleCore(): boolean {
+  return loadavg()[0]! < availableParallelism() - 0.5;
 }
 
 /** The FIT signature ".FIT" at bytes 8-11 (the readers check everything else). */
