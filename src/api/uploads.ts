@@ -12,8 +12,6 @@ export interface UploadOptions {
   workspaceId?: string;
   /** Keep a FIT file whose checksum fails or that is cut short (the person chose to). */
   readDamaged?: boolean;
-  /** Keep a FIT file whose checksum fails or that is cut short (the person chose to). */
-  readDamaged?: boolean;
   onProgress?: (progress: UploadProgress) => void;
   signal?: AbortSignal;
 }
@@ -33,7 +31,6 @@ function parseJson(text: string): unknown {
 export function uploadRecordings(files: readonly File[], options: UploadOptions = {}): Promise<UploadResponse> {
   const form = new FormData();
   if (options.workspaceId) form.append('workspaceId', options.workspaceId);
-  if (options.readDamaged) form.append('readDamaged', 'true');
   if (options.readDamaged) form.append('readDamaged', 'true');
   for (const file of files) form.append('file', file, file.name);
 
