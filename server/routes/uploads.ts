@@ -16,7 +16,7 @@ export function uploadRoutes(ctx: AppContext): Router {
   // Memory storage: the bytes go to the database anyway, and the size limit bounds memory.
   const receive = multer({
     storage: multer.memoryStorage(),
-    limits: { fileSize: ctx.config.uploadLimitMb * 1024 * 1024, files: MAX_FILES_PER_REQUEST, fields: 10 },
+    limits: { fileSize: Math.floor(ctx.config.uploadLimitMb * 1024 * 1024), files: MAX_FILES_PER_REQUEST, fields: 10 },
   }).array('file', MAX_FILES_PER_REQUEST);
   // Other errors of the multipart parser (busboy's "Unexpected end of form", "Malformed part header") are the body's fault.
   const parseMultipart: RequestHandler = (req, res, next) =>
