@@ -63,9 +63,11 @@ describe('a runaway formula cell', () => {
     await until('the quick cell', async () => (await page.locator('[data-value-name="base"]').textContent().catch(() => null)) === '42');
     const quickName = (await quick.getAttribute('data-cell-name'))!;
 
-    // One built-in call on two 1500 x 1500 matrices (3.4e9 multiply-adds): under the size cap, and
-    // no formula step to check the clock between, so only ending the worker stops it.
-    const runaway = await addFormula(page, 'big = sum(ones(1500, 1500) * ones(1500, 1500))');
+    // One built-in call on two 2200 x 2200 matrices (1.1e10 multiply-adds, about 50 s on this
+    // machine when quiet; 1500 x 1500 finished in 15 s and met the formula's own clock check
+    // instead): under the size cap, and no formula step to check the clock between, so only
+    // ending the worker stops it.
+    const runaway = await addFormula(page, 'big = sum(ones(2200, 2200) * ones(2200, 2200))');
     const runawayName = (await runaway.getAttribute('data-cell-name'))!;
     const started = Date.now();
     try {
