@@ -7,6 +7,7 @@ import { crcFailingFit, notFitBytes, smallFit, truncatedFit } from '../fixtures/
 import { launchBrowser, watchedPage, type WatchedPage } from './support/browser.js';
 import { startServer, type RunningServer } from './support/server.js';
 import { signInAs } from './support/session.js';
+import { until } from './support/until.js';
 
 // A small upload limit so an ordinary file can be "too large" (the server reads it from UPLOAD_LIMIT_MB).
 // (A whole number of bytes: multer refuses a fractional fileSize, e.g. from 0.05 MB.)
@@ -64,15 +65,6 @@ afterAll(async () => {
   await server?.stop();
   rmSync(dir, { recursive: true, force: true });
 });
-
-/** Polls from the test side: string predicates would need eval, which the page's policy forbids. */
-async function until(what: string, check: () => Promise<boolean>, timeoutMs = 60_000): Promise<void> {
-  const deadline = Date.now() + timeoutMs;
-  while (!(await check())) {
-    if (Date.now() > deadline) throw new Error(`timed out waiting for ${what}`);
-    await new Promise((r) => setTimeout(r, 150));
-  }
-}
 
 let formulaName = '';
 const cell = (page: Page, name: string): Locator => page.locator(`[data-cell-name="${name}"]`);

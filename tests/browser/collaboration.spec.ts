@@ -13,6 +13,7 @@ import { synthesizeRide } from '../../shared/synthetic/synthesize-ride.js';
 import { launchBrowser, watchedPage, type WatchedPage } from './support/browser.js';
 import { startServer, type RunningServer } from './support/server.js';
 import { signInAs } from './support/session.js';
+import { until as untilHolds } from './support/until.js';
 
 // The recipe is the seeded chainring notebook: its own ride has the left leg of the test
 // crank reading 8% high on the 50T (the scenario's built-in error). The second ride is
@@ -48,14 +49,8 @@ afterAll(async () => {
   rmSync(dir, { recursive: true, force: true });
 });
 
-/** Polls from the test side: string predicates would need eval, which the page's policy forbids. */
-async function until(what: string, check: () => Promise<boolean>, timeoutMs = 90_000): Promise<void> {
-  const deadline = Date.now() + timeoutMs;
-  while (!(await check())) {
-    if (Date.now() > deadline) throw new Error(`timed out waiting for ${what}`);
-    await new Promise((r) => setTimeout(r, 200));
-  }
-}
+/** The collaboration stories run several servers' worth of work: a longer default wait. */
+const until = (what: string, check: () => Promise<boolean>, timeoutMs = 90_000): Promise<void> => untilHolds(what, check, timeoutMs, 200);
 
 /** With COGBOOK_SHOTS=dir, a picture of the page for a human to look at. */
 async function shot(page: Page, name: string): Promise<void> {

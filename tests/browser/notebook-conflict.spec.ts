@@ -7,6 +7,7 @@ import type { NotebookResponse, RevisionListResponse, RevisionResponse } from '.
 import { launchBrowser, watchedPage, type WatchedPage } from './support/browser.js';
 import { startServer, type RunningServer } from './support/server.js';
 import { signInAs } from './support/session.js';
+import { until } from './support/until.js';
 
 let server: RunningServer;
 let browser: Browser;
@@ -20,15 +21,6 @@ afterAll(async () => {
   await browser?.close();
   await server?.stop();
 });
-
-/** Polls from the test side: string predicates would need eval, which the page's policy forbids. */
-async function until(what: string, check: () => Promise<boolean>, timeoutMs = 60_000): Promise<void> {
-  const deadline = Date.now() + timeoutMs;
-  while (!(await check())) {
-    if (Date.now() > deadline) throw new Error(`timed out waiting for ${what}`);
-    await new Promise((r) => setTimeout(r, 150));
-  }
-}
 
 /** GET through the page's own session (the same cookies as the person at that page). */
 async function api<T>(page: Page, path: string): Promise<T> {

@@ -9,6 +9,7 @@ import { deviceView } from '../../shared/synthetic/device-view.js';
 import { synthesizeRide } from '../../shared/synthetic/synthesize-ride.js';
 import { launchBrowser, watchedPage, type WatchedPage } from './support/browser.js';
 import { startServer, type RunningServer } from './support/server.js';
+import { until } from './support/until.js';
 
 // The left leg of the test crank reads 8% high on the 50T only (the scenario's known error).
 const scenario = DEMO_SCENARIOS['chainring-gain'];
@@ -59,15 +60,6 @@ async function cellSnapshot(page: Page): Promise<Record<string, { state: string;
       }),
     ),
   );
-}
-
-/** Polls from the test side: string predicates would need eval, which the page's policy forbids. */
-async function until(what: string, check: () => Promise<boolean>, timeoutMs = 60_000): Promise<void> {
-  const deadline = Date.now() + timeoutMs;
-  while (!(await check())) {
-    if (Date.now() > deadline) throw new Error(`timed out waiting for ${what}`);
-    await new Promise((r) => setTimeout(r, 150));
-  }
 }
 
 async function waitAllUpToDate(page: Page, count: number): Promise<void> {

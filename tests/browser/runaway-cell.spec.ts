@@ -6,6 +6,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { launchBrowser, watchedPage, type WatchedPage } from './support/browser.js';
 import { startServer, type RunningServer } from './support/server.js';
 import { signInAs } from './support/session.js';
+import { until } from './support/until.js';
 
 // The engine client's default hard limit for one run (src/composables/useEngine.ts).
 const RUN_LIMIT_S = 30;
@@ -22,15 +23,6 @@ afterAll(async () => {
   await browser?.close();
   await server?.stop();
 });
-
-/** Polls from the test side: string predicates would need eval, which the page's policy forbids. */
-async function until(what: string, check: () => Promise<boolean>, timeoutMs = 60_000): Promise<void> {
-  const deadline = Date.now() + timeoutMs;
-  while (!(await check())) {
-    if (Date.now() > deadline) throw new Error(`timed out waiting for ${what}`);
-    await new Promise((r) => setTimeout(r, 200));
-  }
-}
 
 async function addFormula(page: Page, source: string): Promise<Locator> {
   await page.locator('.nb-page__add [data-testid="add-cell"], .nb-page__empty-actions [data-testid="add-cell"]').first().click();
