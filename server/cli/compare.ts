@@ -2,6 +2,7 @@ import { readFile } from 'node:fs/promises';
 import { basename } from 'node:path';
 import type { Recording } from '../../shared/recording/recording.js';
 import { COMPARE_USAGE, parseCompareArgs, UsageError } from './compare-args.js';
+import { runCommand } from './run-command.js';
 
 /**
  * The headless compare command: reads the reference and each device under test, runs
@@ -74,14 +75,4 @@ async function parseRecording(path: string, bytes: Uint8Array, importRecording: 
   return result.recording;
 }
 
-main(process.argv.slice(2)).then(
-  (code) => {
-    process.exitCode = code;
-  },
-  (error: unknown) => {
-    const usage = error instanceof UsageError;
-    const message = error instanceof Error ? error.message : String(error);
-    process.stderr.write(`compare: ${message.split('\n')[0]}\n`);
-    process.exitCode = usage ? 2 : 1;
-  },
-);
+runCommand('compare', main);

@@ -4,6 +4,7 @@ import { basename } from 'node:path';
 import type { Snapshot, SnapshotCell } from '../../shared/api/snapshots.js';
 import { parseRecipeArgs, RECIPE_USAGE, UsageError, type RecipeArgs } from './recipe-args.js';
 import { isExportPath, loadExportFile, loadFromDatabase, type RecipeFile, type RecipeSource } from './recipe-source.js';
+import { runCommand } from './run-command.js';
 
 /**
  * The headless recipe command: computes a notebook on given files with the shared
@@ -99,14 +100,4 @@ function cellReport(cell: SnapshotCell) {
   return out;
 }
 
-main(process.argv.slice(2)).then(
-  (code) => {
-    process.exitCode = code;
-  },
-  (error: unknown) => {
-    const usage = error instanceof UsageError;
-    const message = error instanceof Error ? error.message : String(error);
-    process.stderr.write(`recipe: ${message.split('\n')[0]}\n`);
-    process.exitCode = usage ? 2 : 1;
-  },
-);
+runCommand('recipe', main);
