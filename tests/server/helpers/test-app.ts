@@ -3,8 +3,8 @@ import { existsSync, mkdirSync, mkdtempSync, readdirSync, readFileSync, renameSy
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { sql } from 'drizzle-orm';
-import pg from 'pg';
 import supertest from 'supertest';
+import { createDatabase } from '../../../bench/load/postgres.js';
 import { createApp, type AppHandle } from '../../../server/app.js';
 import { loadConfig, type Config } from '../../../server/config.js';
 import { openDatabase, type Database } from '../../../server/db/client.js';
@@ -66,7 +66,7 @@ export async function createTestApp(env: Record<string, string> = {}): Promise<T
     UPLOAD_LIMIT_MB: '1',
     ...env,
   });
-  const pgTarget = process.env.DATABASE_URL ? await createScratchDatabase(process.env.DATABASE_URL) : undefined;
+  const pgTarget = process.env.DATABASE_URL ? await createDatabase(process.env.DATABASE_URL, 'cogbook_test') : undefined;
   const database = pgTarget
     ? await openDatabase({ databaseUrl: pgTarget.url, migrationsFolder: MIGRATIONS })
     : await openMigratedPglite();
@@ -99,25 +99,6 @@ export async function createTestApp(env: Record<string, string> = {}): Promise<T
   };
 }
 
-/** A new database on the server of `adminUrl`, so parallel runs never share tables. */
-async function createScratchDatabase(adminUrl: string): Promise<{ url: string; drop(): Promise<void> }> {
-  const name = `cogbook_test_${process.pid}_${Math.random().toString(36).slice(2, 8)}`;
-  const admin = new pg.Client({ connectionString: adminUrl });
-  await admin.connect();
-  await admin.query(`CREATE DATABASE ${name}`);
-  await admin.end();
-  const url = new URL(adminUrl);
-  url.pathname = `/${name}`;
-  return {
-    url: url.toString(),
-    async drop() {
-      const c = new pg.Client({ connectionString: adminUrl });
-      await c.connect();
-      await c.query(`DROP DATABASE IF EXISTS ${name} WITH (FORCE)`);
-      await c.end();
-    },
-  };
-}
 
 export type Agent = ReturnType<typeof supertest.agent>;
 
