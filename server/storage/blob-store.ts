@@ -17,6 +17,10 @@ export interface BlobStore {
   read(key: string): Promise<Uint8Array | undefined>;
   /** The object as a stream (downloads), or undefined when the key is unknown. */
   open(key: string): Promise<Readable | undefined>;
+  /** The object's size in bytes, or undefined when the key is unknown (no bytes are fetched). */
+  stat(key: string): Promise<{ size: number } | undefined>;
+  /** Removes the object; removing an unknown key is harmless. */
+  remove(key: string): Promise<void>;
 }
 
 // Repositories are called with the Drizzle handle alone (from services, the run

@@ -1,5 +1,15 @@
 import type { Readable } from 'node:stream';
-import { GetObjectCommand, HeadBucketCommand, NoSuchKey, PutObjectCommand, S3Client, S3ServiceException } from '@aws-sdk/client-s3';
+import {
+  DeleteObjectCommand,
+  GetObjectCommand,
+  HeadBucketCommand,
+  HeadObjectCommand,
+  NoSuchKey,
+  NotFound,
+  PutObjectCommand,
+  S3Client,
+  S3ServiceException,
+} from '@aws-sdk/client-s3';
 import type { BlobStore } from './blob-store.js';
 
 /** Where the bucket is. Credentials come from the SDK's usual sources (AWS_ACCESS_KEY_ID, AWS_SECRET_ACCESS_KEY, profiles, roles). */
@@ -66,6 +76,23 @@ export function createS3Store(settings: S3Settings): BlobStore {
     async open(key) {
       // In Node the SDK's body is a Readable (an http.IncomingMessage with helpers mixed in).
       return (await get(key)) as Readable | undefined;
+    },
+    async stat(key) {
+      try {
+        const head = await client.send(new HeadObjectCommand({ Bucket: settings.bucket, Key: keyOf(key) }));
+        return { size: head.ContentLength ?? 0 };
+      } catch (error) {
+        // HEAD answers carry no body, so a missing key is a bare 404 (NotFound), not NoSuchKey.
+        if (error instanceof NotFound || error instanceof NoSuchKey || (error instanceof S3ServiceException && error.$metadata.httpStatusCode === 404)) return undefined;
+        throw new Error(`looking up ${keyOf(key)} in ${location} failed: ${reasonOf(error)}`, { cause: error });
+      }
+    },
+    async remove(key) {
+      try {
+        await client.send(new DeleteObjectCommand({ Bucket: settings.bucket, Key: keyOf(key) }));
+      } catch (error) {
+        throw new Error(`removing ${keyOf(key)} from ${location} failed: ${reasonOf(error)}`, { cause: error });
+      }
     },
   };
 }

@@ -1,6 +1,6 @@
 import { Readable } from 'node:stream';
 import { and, desc, eq, inArray, sql } from 'drizzle-orm';
-import { blobStoreOf } from '../../storage/blob-store.js';
+import { blobStoreOf, type BlobStore } from '../../storage/blob-store.js';
 import type { Db } from '../client.js';
 import { notebook, notebookAccess, notebookRevision, upload, uploadLink, user, workspaceMember } from '../schema.js';
 
@@ -69,46 +69,94 @@ function externalStore(db: Db, sha256: string) {
   return store;
 }
 
+type StoreUploadInput = {
+  sha256: string;
+  fileName: string;
+  format: 'fit' | 'csv';
+  bytes: Uint8Array;
+  warnings: { code: string; message: string }[];
+  uploadedBy: string;
+  workspaceId: string;
+};
+
 /**
- * Stores bytes once per sha256 and links them to the workspace. Two concurrent
+ * Stores bytes once per sha256 and links them to the workspace, all or nothing: the
+ * upload row and its workspace link are written in one transaction. Two concurrent
  * uploads of the same bytes both end with the one row (the unique sha256 decides).
+ *
+ * With an object store the bytes go there first, so no row ever points at missing
+ * bytes; when the transaction then fails, the object it put is removed again unless
+ * a row for the same bytes exists by then. Every upload of the same bytes takes the
+ * same advisory lock inside its transaction and the removal takes it too, so a
+ * removal cannot pull the object from under another upload's new row: a new row is
+ * written only after checking, under the lock, that its object is there.
  */
-export async function storeUpload(
-  db: Db,
-  input: {
-    sha256: string;
-    fileName: string;
-    format: 'fit' | 'csv';
-    bytes: Uint8Array;
-    warnings: { code: string; message: string }[];
-    uploadedBy: string;
-    workspaceId: string;
-  },
-): Promise<{ record: UploadRecord; duplicate: boolean }> {
-  // With an object store the bytes go there first, so no row ever points at missing bytes.
+export async function storeUpload(db: Db, input: StoreUploadInput): Promise<{ record: UploadRecord; duplicate: boolean }> {
   const store = blobStoreOf(db);
-  if (store && !(await findUploadBySha(db, input.sha256))) await store.put(input.sha256, input.bytes);
-  const inserted = await db
-    .insert(upload)
-    .values({
-      sha256: input.sha256,
-      fileName: input.fileName,
-      size: input.bytes.byteLength,
-      format: input.format,
-      bytes: store ? null : input.bytes,
-      warnings: input.warnings,
-      uploadedBy: input.uploadedBy,
-      workspaceId: input.workspaceId,
-    })
-    .onConflictDoNothing({ target: upload.sha256 })
-    .returning(metaColumns);
-  const record = inserted[0] ?? (await findUploadBySha(db, input.sha256));
-  if (!record) throw new Error(`upload ${input.sha256} vanished right after it was stored`);
-  await db
-    .insert(uploadLink)
-    .values({ uploadId: record.id, workspaceId: input.workspaceId, uploadedBy: input.uploadedBy })
-    .onConflictDoNothing();
-  return { record, duplicate: inserted.length === 0 };
+  let putHere = false;
+  if (store && !(await findUploadBySha(db, input.sha256))) {
+    await store.put(input.sha256, input.bytes);
+    putHere = true;
+  }
+  try {
+    return await db.transaction(async (tx) => {
+      if (store) await lockBytes(tx, input.sha256);
+      const inserted = await tx
+        .insert(upload)
+        .values({
+          sha256: input.sha256,
+          fileName: input.fileName,
+          size: input.bytes.byteLength,
+          format: input.format,
+          bytes: store ? null : input.bytes,
+          warnings: input.warnings,
+          uploadedBy: input.uploadedBy,
+          workspaceId: input.workspaceId,
+        })
+        .onConflictDoNothing({ target: upload.sha256 })
+        .returning(metaColumns);
+      // A new row needs its object: another upload of the same bytes whose transaction failed
+      // may have removed it between our put and our lock (a rare race; put it again).
+      if (store && inserted.length > 0 && (await store.stat(input.sha256))?.size !== input.bytes.byteLength) {
+        await store.put(input.sha256, input.bytes);
+      }
+      const record = inserted[0] ?? (await findUploadBySha(tx, input.sha256));
+      if (!record) throw new Error(`upload ${input.sha256} vanished right after it was stored`);
+      await tx
+        .insert(uploadLink)
+        .values({ uploadId: record.id, workspaceId: input.workspaceId, uploadedBy: input.uploadedBy })
+        .onConflictDoNothing();
+      return { record, duplicate: inserted.length === 0 };
+    });
+  } catch (error) {
+    if (store && putHere) await removeUnusedObject(db, store, input.sha256, error);
+    throw error;
+  }
+}
+
+/** Serialises writers of one sha256 (uploads, orphan removal) until the transaction ends. */
+async function lockBytes(tx: Db, sha256: string): Promise<void> {
+  await tx.execute(sql`select pg_advisory_xact_lock(hashtextextended(${`cogbook.upload:${sha256}`}, 0))`);
+}
+
+/**
+ * After a failed upload: removes the object it put, unless a row for the same bytes
+ * exists (another upload's, committed meanwhile). A removal that fails leaves an object
+ * no row names, which is harmless (the next upload of these bytes overwrites it); the
+ * upload's own error is what the caller sees, with the removal's failure added.
+ */
+async function removeUnusedObject(db: Db, store: BlobStore, sha256: string, cause: unknown): Promise<void> {
+  try {
+    await db.transaction(async (tx) => {
+      await lockBytes(tx, sha256);
+      const rows = await tx.select({ id: upload.id }).from(upload).where(eq(upload.sha256, sha256));
+      if (rows.length === 0) await store.remove(sha256);
+    });
+  } catch (removal) {
+    if (cause instanceof Error) {
+      cause.message += `; the object it put in ${store.location} is left unused (${removal instanceof Error ? removal.message : String(removal)})`;
+    }
+  }
 }
 
 /**
