@@ -33,6 +33,19 @@ interface Sizes {
  * the same thing done to a notebook with nothing to compute, in the same browser and run.
  */
 export async function benchBrowser(options: BenchOptions): Promise<BenchRow[]> {
+  return withProduct(options, (server, browser, sizes) => measure(server, browser, sizes));
+}
+
+/**
+ * Only the published page's rows of {@link benchBrowser}: the 1 Hz notebook is uploaded and
+ * published without opening or editing it, so the reader's figures come in minutes.
+ */
+export async function benchPublished(options: BenchOptions): Promise<BenchRow[]> {
+  return withProduct(options, (server, browser, sizes) => measurePublished(server, browser, sizes));
+}
+
+/** Starts the built server and Chromium, runs `body`, and stops both whatever happens. */
+async function withProduct(options: BenchOptions, body: (server: RunningServer, browser: Browser, sizes: Sizes) => Promise<BenchRow[]>): Promise<BenchRow[]> {
   const sizes: Sizes = options.quick ? { hours: 1, opens: 1, edits: 6, visits: 2 } : { hours: 4, opens: 3, edits: 21, visits: 5 };
   // The server support starts dist/node/server/index.js from the working directory.
   process.chdir(repoPath(''));
@@ -51,7 +64,7 @@ export async function benchBrowser(options: BenchOptions): Promise<BenchRow[]> {
   const server = serverStart.value;
   const browser = browserStart.value;
   try {
-    return await measure(server, browser, sizes);
+    return await body(server, browser, sizes);
   } catch (error) {
     const tail = server.output().trim().split('\n').slice(-5).join(' | ');
     throw new Error(`${error instanceof Error ? error.message : String(error)}${tail ? ` (server: ${tail})` : ''}`);
@@ -84,6 +97,24 @@ async function measure(server: RunningServer, browser: Browser, sizes: Sizes): P
   const bigSlug = (await api.publish(publishedBig!.id)).slug;
   const tinySlug = (await api.publish(tiny.notebook.id)).slug;
   rows.push(...(await publishedRows(browser, server.url, { big: bigSlug, tiny: tinySlug }, publishedBig!.label, sizes)));
+  await owner.close();
+  return rows;
+}
+
+async function measurePublished(server: RunningServer, browser: Browser, sizes: Sizes): Promise<BenchRow[]> {
+  const owner = await browser.newContext({ viewport: { width: 1280, height: 860 } });
+  owner.setDefaultTimeout(120_000);
+  const api = new BenchApi(owner.request, server.url);
+  await api.signIn(ACCOUNT, DEMO_PASSWORD);
+  const workspaceId = await api.workspaceId();
+  const tiny = await api.createNotebook(workspaceId, tinyNotebook('Benchmark baseline'));
+  const label = `3 x ${sizes.hours} h 1 Hz`;
+  log(`${label}: writing and uploading the recordings`);
+  const big = await api.createNotebook(workspaceId, benchNotebook(`Benchmark ${label}`, await api.upload(benchFiles(sizes.hours, 1))));
+  log('publishing (the server computes the snapshots)');
+  const bigSlug = (await api.publish(big.notebook.id)).slug;
+  const tinySlug = (await api.publish(tiny.notebook.id)).slug;
+  const rows = await publishedRows(browser, server.url, { big: bigSlug, tiny: tinySlug }, label, sizes);
   await owner.close();
   return rows;
 }

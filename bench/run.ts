@@ -1,6 +1,6 @@
 import { writeFile } from 'node:fs/promises';
 import { parseArgs } from 'node:util';
-import { benchBrowser } from './browser.bench.js';
+import { benchBrowser, benchPublished } from './browser.bench.js';
 import { benchCompare } from './compare.bench.js';
 import { formatTable } from './format-table.js';
 import { benchImport } from './import.bench.js';
@@ -20,7 +20,12 @@ const BENCHES: Record<string, Bench> = {
   peer: benchPeer,
   load: benchLoad,
   browser: benchBrowser,
+  // The browser module's published-page rows alone (they are also part of browser).
+  published: benchPublished,
 };
+
+/** Modules whose rows another module already gives: run only when named with --only. */
+const PART_OF_ANOTHER = new Set(['published']);
 
 const USAGE = `Usage: npm run bench -- [--only NAME[,NAME]] [--quick]
 
@@ -28,6 +33,7 @@ Runs the benchmarks, prints one table and writes bench/results.json.
 Every figure is a ratio to a baseline measured in the same run on this machine.
 
   --only NAME   run only these modules (repeat or comma-separate): ${Object.keys(BENCHES).join(', ')}
+                (published: the browser module's published-page rows alone)
   --quick       smaller sizes and fewer repetitions (a smoke test, not figures to quote)`;
 
 async function main(argv: string[]): Promise<number> {
@@ -45,7 +51,7 @@ async function main(argv: string[]): Promise<number> {
     process.stderr.write(`bench: no module named ${unknown.join(', ')} (have ${Object.keys(BENCHES).join(', ')})\n`);
     return 2;
   }
-  const names = wanted.length > 0 ? Object.keys(BENCHES).filter((n) => wanted.includes(n)) : Object.keys(BENCHES);
+  const names = wanted.length > 0 ? Object.keys(BENCHES).filter((n) => wanted.includes(n)) : Object.keys(BENCHES).filter((n) => !PART_OF_ANOTHER.has(n));
   const machine = describeMachine();
   const rows: BenchRow[] = [];
   let failed = 0;
