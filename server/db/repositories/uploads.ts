@@ -1,5 +1,5 @@
 import { Readable } from 'node:stream';
-import { and, desc, eq, inArray, sql } from 'drizzle-orm';
+import { and, asc, desc, eq, gt, inArray, isNotNull, sql } from 'drizzle-orm';
 import { blobStoreOf, type BlobStore } from '../../storage/blob-store.js';
 import type { Db } from '../client.js';
 import { notebook, notebookAccess, notebookRevision, upload, uploadLink, user, workspaceMember } from '../schema.js';
@@ -216,4 +216,59 @@ export async function listWorkspaceUploads(db: Db, workspaceId: string, page: { 
 export async function findUploads(db: Db, ids: readonly string[]): Promise<UploadRecord[]> {
   if (ids.length === 0) return [];
   return db.select(metaColumns).from(upload).where(inArray(upload.id, [...ids]));
+}
+
+/** An upload whose bytes are still in its row, without the bytes. */
+export interface HeldUpload {
+  id: string;
+  sha256: string;
+  fileName: string;
+  size: number;
+}
+
+/** Uploads whose bytes are still in the database, by id after `afterId` (a page for moving them out). */
+export async function listUploadsHeldInDatabase(db: Db, afterId: string, limit: number): Promise<HeldUpload[]> {
+  return db
+    .select({ id: upload.id, sha256: upload.sha256, fileName: upload.fileName, size: upload.size })
+    .from(upload)
+    .where(and(isNotNull(upload.bytes), gt(upload.id, afterId)))
+    .orderBy(asc(upload.id))
+    .limit(limit);
+}
+
+/** How many uploads keep their bytes in the database and how many elsewhere, with the bytes of each. */
+export async function countUploadsByHome(db: Db): Promise<{ inDatabase: number; inDatabaseBytes: number; elsewhere: number; elsewhereBytes: number }> {
+  const [row] = await db
+    .select({
+      inDatabase: sql<number>`count(*) filter (where ${upload.bytes} is not null)::int`,
+      inDatabaseBytes: sql<number>`coalesce(sum(${upload.size}) filter (where ${upload.bytes} is not null), 0)::float8`,
+      elsewhere: sql<number>`count(*) filter (where ${upload.bytes} is null)::int`,
+      elsewhereBytes: sql<number>`coalesce(sum(${upload.size}) filter (where ${upload.bytes} is null), 0)::float8`,
+    })
+    .from(upload);
+  return {
+    inDatabase: Number(row?.inDatabase ?? 0),
+    inDatabaseBytes: Number(row?.inDatabaseBytes ?? 0),
+    elsewhere: Number(row?.elsewhere ?? 0),
+    elsewhereBytes: Number(row?.elsewhereBytes ?? 0),
+  };
+}
+
+/** The bytes kept in the upload's own row (none when they live in an object store). */
+export async function readHeldUploadBytes(db: Db, id: string): Promise<Uint8Array | undefined> {
+  const rows = await db.select({ bytes: upload.bytes }).from(upload).where(eq(upload.id, id));
+  return rows[0]?.bytes ?? undefined;
+}
+
+/**
+ * Drops the database copy of an upload's bytes once they are safely in the object
+ * store; answers false when the row is gone or holds no bytes any more.
+ */
+export async function clearHeldUploadBytes(db: Db, id: string, sha256: string): Promise<boolean> {
+  const cleared = await db
+    .update(upload)
+    .set({ bytes: null })
+    .where(and(eq(upload.id, id), eq(upload.sha256, sha256), isNotNull(upload.bytes)))
+    .returning({ id: upload.id });
+  return cleared.length > 0;
 }
