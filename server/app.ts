@@ -1,6 +1,7 @@
 import { randomUUID } from 'node:crypto';
 import { existsSync, readFileSync } from 'node:fs';
 import { basename, join } from 'node:path';
+import compression from 'compression';
 import express, { type Express } from 'express';
 import { rateLimit } from 'express-rate-limit';
 import { pinoHttp } from 'pino-http';
@@ -16,6 +17,7 @@ import { healthRoutes } from './routes/health.js';
 import { invitationRoutes } from './routes/invitations.js';
 import { notebookRoutes } from './routes/notebooks.js';
 import { outboxRoutes } from './routes/outbox.js';
+import { publishedPageRoutes } from './routes/publications-page.js';
 import { publicationRoutes } from './routes/publications.js';
 import { runRoutes } from './routes/runs.js';
 import { sampleRoutes } from './routes/samples.js';
@@ -67,6 +69,9 @@ export function createApp(deps: AppDeps): AppHandle {
     }),
   );
   app.use(securityHeaders());
+  // Scripts, styles, HTML and JSON go out compressed (brotli or gzip, as the client accepts);
+  // recording bytes and fonts are already dense and are sent as they are.
+  app.use(compression());
 
   mountAuth(app, ctx);
   app.use('/api', originGuard(deps.config.trustedOrigins), express.json({ limit: JSON_LIMIT }));
@@ -132,6 +137,7 @@ function mountClient(app: Express, rootDir: string): void {
   );
   app.use('/assets', notFoundHandler);
   app.use(express.static(clientDir, { index: false }));
+  app.use(publishedPageRoutes(clientDir));
   app.get('/{*splat}', (_req, res, next) => {
     const index = join(clientDir, 'index.html');
     if (!existsSync(index)) return next();

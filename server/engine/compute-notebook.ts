@@ -5,6 +5,7 @@ import { csvMappingSchema } from '../../shared/recording/csv-mapping.js';
 import { importRecording } from '../../shared/recording/import-recording.js';
 import type { Recording } from '../../shared/recording/recording.js';
 import { buildSnapshot } from './build-snapshot.js';
+import { drawSnapshotCharts } from './chart-svg.js';
 import { tableCsv } from './table-csv.js';
 
 /** One recording handed to a computation, bound to a slot by name. */
@@ -21,6 +22,8 @@ export interface ComputeJob {
   csvCellId?: string;
   /** Stop one formula or chart cell after this long, ms. */
   cellTimeLimitMs?: number;
+  /** Also draw every chart as SVG into the snapshot (published pages show those). */
+  drawCharts?: boolean;
 }
 
 /** The outcome: a snapshot, or the first input that could not be read. */
@@ -61,6 +64,7 @@ export async function computeNotebook(job: ComputeJob): Promise<ComputeOutcome> 
     durationMs: performance.now() - started,
     inputs: job.inputs.map(({ bytes: _bytes, ...meta }) => meta),
   });
+  if (job.drawCharts) await drawSnapshotCharts(snapshot);
   if (job.csvCellId === undefined) return { ok: true, snapshot };
   const value = run.cache.entries[job.csvCellId]?.value;
   return { ok: true, snapshot, csv: value?.kind === 'table' ? tableCsv(value.table) : null };

@@ -21,7 +21,8 @@ export async function publish(db: Db, userId: string, notebookId: string, body: 
   assertNotebook(nb, 'edit');
   const document = await revisionDocument(db, notebookId, nb!.currentRevision);
   const bindings = await resolveBindings(db, document, {}, userId);
-  const { snapshot } = await computeSnapshot(db, document, nb!.currentRevision, bindings);
+  // Charts drawn on the server too: the reader's page shows them without the chart library.
+  const { snapshot } = await computeSnapshot(db, document, nb!.currentRevision, bindings, { drawCharts: true });
   const existing = await repo.findPublicationOfNotebook(db, notebookId);
   await repo.upsertPublication(db, {
     notebookId,

@@ -59,7 +59,7 @@ export async function computeSnapshot(
   document: NotebookDocument,
   revision: number,
   bindings: { slot: string; uploadId: string }[],
-  options: { csvCellId?: string } = {},
+  options: { csvCellId?: string; drawCharts?: boolean } = {},
 ): Promise<ComputedSnapshot> {
   const inputs: ComputeInput[] = [];
   const records: RunBindingRecord[] = [];
@@ -72,7 +72,7 @@ export async function computeSnapshot(
     inputs.push({ ...input, bytes });
     records.push({ slot: b.slot, uploadId: b.uploadId, fileName: meta.fileName });
   }
-  const outcome = await computeInWorker({ document, revision, inputs, ...(options.csvCellId ? { csvCellId: options.csvCellId } : {}) });
+  const outcome = await computeInWorker({ document, revision, inputs, ...(options.csvCellId ? { csvCellId: options.csvCellId } : {}), ...(options.drawCharts ? { drawCharts: true } : {}) });
   if (!outcome.ok) {
     if (outcome.error.code === 'time_limit') throw new AppError(503, 'time_limit', outcome.error.message);
     if (outcome.error.code === 'engine_failed') throw new Error(`notebook computation failed: ${outcome.error.message}`);

@@ -59,6 +59,12 @@ export const snapshotResultSchema = z.discriminatedUnion('type', [
     type: z.literal('chart'),
     /** A vega-lite spec with inline data of at most {@link SNAPSHOT_CHART_MAX_ROWS} rows per dataset. */
     spec: z.record(z.string(), z.unknown()),
+    /**
+     * The chart already drawn on the server as an SVG document (published snapshots), so a
+     * reader's page shows it without the chart library. Plain shapes and text only; absent
+     * when the chart could not be drawn there.
+     */
+    svg: z.string().optional(),
   }),
   z.object({ type: z.literal('note'), markdown: z.string() }),
 ]);

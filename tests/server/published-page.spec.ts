@@ -1,0 +1,187 @@
+import { mkdirSync, rmSync, writeFileSync } from 'node:fs';
+import { get, type IncomingHttpHeaders } from 'node:http';
+import type { AddressInfo } from 'node:net';
+import { join } from 'node:path';
+import { brotliDecompressSync, gunzipSync } from 'node:zlib';
+import type { Express } from 'express';
+import supertest from 'supertest';
+import { afterAll, beforeAll, beforeEach, describe, expect, it } from 'vitest';
+import { publishedNotebookResponseSchema } from '../../shared/api/publications.js';
+import { isPlainSvg } from '../../server/engine/chart-svg.js';
+import { fitBytes } from './helpers/fixtures.js';
+import { recipeDoc } from './helpers/recipe-notebook.js';
+import { createTestApp, personalWorkspaceOf, signUp, type Agent, type TestApp } from './helpers/test-app.js';
+
+let t: TestApp;
+let editor: Agent;
+let notebookId: string;
+
+/** One GET on a listening copy of the app, with the response bytes exactly as sent (no client-side decoding). */
+async function raw(app: Express, path: string, acceptEncoding: string): Promise<{ status: number; headers: IncomingHttpHeaders; body: Buffer }> {
+  const server = app.listen(0, '127.0.0.1');
+  await new Promise((r) => server.once('listening', r));
+  try {
+    const { port } = server.address() as AddressInfo;
+    return await new Promise((resolve, reject) => {
+      get({ host: '127.0.0.1', port, path, headers: { 'accept-encoding': acceptEncoding } }, (res) => {
+        const chunks: Buffer[] = [];
+        res.on('data', (c: Buffer) => chunks.push(c));
+        res.on('end', () => resolve({ status: res.statusCode ?? 0, headers: res.headers, body: Buffer.concat(chunks) }));
+        res.on('error', reject);
+      }).on('error', reject);
+    });
+  } finally {
+    server.close();
+  }
+}
+
+beforeAll(async () => {
+  t = await createTestApp();
+});
+afterAll(async () => t.close());
+beforeEach(async () => {
+  await t.reset();
+  editor = (await signUp(t, 'editor@lab.test')).agent;
+  const ws = await personalWorkspaceOf(editor);
+  const up = async (watts: number, name: string) =>
+    (await editor.post('/api/uploads').field('workspaceId', ws).attach('file', Buffer.from(fitBytes(60, watts)), name).expect(201)).body.uploads[0].id as string;
+  const [reference, test] = [await up(200, 'reference.fit'), await up(220, 'crank.fit')];
+  const doc = recipeDoc({ reference, test });
+  // A title a reader's page must show as text, never as markup.
+  const chart = doc.cells.find((c) => c.kind === 'chart')!;
+  (chart.config as { title?: string }).title = '<img src=x onerror="alert(1)"> & </text><script>alert(2)</script>';
+  notebookId = (await editor.post('/api/notebooks').send({ workspaceId: ws, document: doc }).expect(201)).body.notebook.id;
+});
+
+describe('charts drawn at publish time', () => {
+  it('stores every chart of a published snapshot as plain SVG, its text escaped', async () => {
+    const pub = (await editor.post(`/api/notebooks/${notebookId}/publication`).send({}).expect(200)).body as { slug: string };
+    const page = publishedNotebookResponseSchema.parse((await supertest(t.app).get(`/api/published/${pub.slug}`).expect(200)).body);
+    const chart = page.snapshot.cells.find((c) => c.name === 'trace')!.result;
+    expect(chart?.type).toBe('chart');
+    const svg = (chart as { svg?: string }).svg!;
+    expect(svg.startsWith('<svg')).toBe(true);
+    expect(svg).toMatch(/class="marks"/);
+    // Drawn at the published page's chart width, with a viewBox so it scales to narrower screens and paper.
+    expect(svg).toMatch(/width="816"/);
+    expect(svg).toMatch(/viewBox="0 0 816 \d+"/);
+    // The line of each device is there: one path per series, with many points.
+    expect((svg.match(/class="mark-line/g) ?? []).length).toBeGreaterThan(0);
+    expect(svg).toContain('&lt;img src=x onerror=');
+    expect(svg).not.toContain('<img');
+    expect(svg).not.toContain('<script');
+    expect(isPlainSvg(svg)).toBe(true);
+  });
+
+  it('draws no SVG for stored runs, which readers of the app see drawn live', async () => {
+    const run = (await editor.post(`/api/notebooks/${notebookId}/runs`).send({}).expect(201)).body as { snapshot?: { cells: { result?: { type: string; svg?: string } }[] } };
+    const charts = (run.snapshot?.cells ?? []).filter((c) => c.result?.type === 'chart');
+    expect(charts.length).toBeGreaterThan(0);
+    expect(charts.every((c) => c.result!.svg === undefined)).toBe(true);
+  });
+});
+
+describe('the SVG check', () => {
+  it('passes what vega draws and refuses anything that could run or load', () => {
+    const ok = '<svg class="marks" width="10" height="10" viewBox="0 0 10 10"><g><path d="M0,0h1" fill="url(#gradient_1)"/><text>a &lt;b&gt; onclick="x"</text></g></svg>';
+    expect(isPlainSvg(ok)).toBe(true);
+    for (const bad of [
+      '<svg><script>alert(1)</script></svg>',
+      '<svg><g onclick="alert(1)"></g></svg>',
+      '<svg><a href="javascript:alert(1)"><text>x</text></a></svg>',
+      '<svg><image href="https://elsewhere.test/x.png"/></svg>',
+      '<svg><foreignObject><div>x</div></foreignObject></svg>',
+      '<svg><rect fill="url(https://elsewhere.test/x)"/></svg>',
+      '<svg><rect style="background:url(x)"/></svg>',
+      '<div>not svg</div>',
+    ]) {
+      expect(isPlainSvg(bad), bad).toBe(false);
+    }
+  });
+});
+
+describe('the published page and compressed responses', () => {
+  let root: string;
+  const script = `console.log(${JSON.stringify('a chart page '.repeat(400))});`;
+  beforeAll(() => {
+    // A throwaway client build, so the test does not depend on `vite build`.
+    root = join(t.config.dataDir, 'root');
+    mkdirSync(join(root, 'dist', 'client', 'assets'), { recursive: true });
+    writeFileSync(join(root, 'dist', 'client', 'index.html'), '<!doctype html><html><head><title>Cogbook</title></head><body>app</body></html>');
+    writeFileSync(
+      join(root, 'dist', 'client', 'published.html'),
+      '<!doctype html><html><head><title>Published finding</title><script type="module" src="/assets/published-abc.js"></script></head><body>reader</body></html>',
+    );
+    writeFileSync(join(root, 'dist', 'client', 'assets', 'published-abc.js'), script);
+  });
+  afterAll(() => rmSync(root, { recursive: true, force: true }));
+
+  it('answers /p/:slug and /published/:slug with the reader page, which starts the snapshot request itself', async () => {
+    const { app } = t.appWith({ rootDir: root });
+    for (const path of ['/p/chainring-gain-3f9a', '/published/chainring-gain-3f9a']) {
+      const res = await supertest(app).get(path).expect(200);
+      expect(res.headers['content-type']).toMatch(/^text\/html/);
+      expect(res.headers['cache-control']).toBe('no-cache');
+      expect(res.text).toContain('<body>reader</body>');
+      expect(res.text).toContain('<link rel="preload" href="/api/published/chainring-gain-3f9a" as="fetch" crossorigin="anonymous">');
+      // Before the page's own script, so the request starts while the HTML is read.
+      expect(res.text.indexOf('rel="preload"')).toBeLessThan(res.text.indexOf('</head>'));
+      expect(res.headers['content-security-policy']).toContain("script-src 'self'");
+      expect(res.headers['content-security-policy']).not.toContain('unsafe-eval');
+    }
+    // A slug that cannot be one gets the page (which says so) but no preload.
+    const odd = await supertest(app).get('/p/Not%20A%20Slug').expect(200);
+    expect(odd.text).toContain('<body>reader</body>');
+    expect(odd.text).not.toContain('rel="preload"');
+    // Every other address is still the app.
+    expect((await supertest(app).get('/notebooks/x').expect(200)).text).toContain('<body>app</body>');
+  });
+
+  it('falls back to the app page when the client has no reader page', async () => {
+    rmSync(join(root, 'dist', 'client', 'published.html'));
+    try {
+      const { app } = t.appWith({ rootDir: root });
+      expect((await supertest(app).get('/p/chainring-gain-3f9a').expect(200)).text).toContain('<body>app</body>');
+    } finally {
+      writeFileSync(join(root, 'dist', 'client', 'published.html'), '<!doctype html><html><head><title>Published finding</title></head><body>reader</body></html>');
+    }
+  });
+
+  it('compresses scripts with brotli or gzip as the browser accepts, and sends them plain otherwise', async () => {
+    const { app } = t.appWith({ rootDir: root });
+    const br = await raw(app, '/assets/published-abc.js', 'gzip, deflate, br');
+    expect(br.status).toBe(200);
+    expect(br.headers['content-encoding']).toBe('br');
+    expect(br.headers['vary']).toMatch(/accept-encoding/i);
+    expect(brotliDecompressSync(br.body).toString()).toBe(script);
+    expect(br.body.length).toBeLessThan(script.length / 10);
+    const gz = await raw(app, '/assets/published-abc.js', 'gzip');
+    expect(gz.headers['content-encoding']).toBe('gzip');
+    expect(gunzipSync(gz.body).toString()).toBe(script);
+    const plain = await raw(app, '/assets/published-abc.js', 'identity');
+    expect(plain.headers['content-encoding']).toBeUndefined();
+    expect(plain.body.toString()).toBe(script);
+  });
+
+  it('compresses the published snapshot, charts and all, and the reader page', async () => {
+    const pub = (await editor.post(`/api/notebooks/${notebookId}/publication`).send({}).expect(200)).body as { slug: string };
+    const { app } = t.appWith({ rootDir: root });
+    const res = await raw(app, `/api/published/${pub.slug}`, 'gzip');
+    expect(res.status).toBe(200);
+    expect(res.headers['content-encoding']).toBe('gzip');
+    const text = gunzipSync(res.body).toString();
+    const page = publishedNotebookResponseSchema.parse(JSON.parse(text));
+    expect(page.slug).toBe(pub.slug);
+    expect(res.body.length).toBeLessThan(text.length / 3);
+    const html = await raw(app, `/p/${pub.slug}`, 'br');
+    expect(html.status).toBe(200);
+    // The page itself is small: under the compression threshold it goes out as it is.
+    expect(html.headers['content-encoding']).toBeUndefined();
+    // Recording bytes are left alone (already dense; and a download keeps its exact length).
+    const withFiles = (await editor.post(`/api/notebooks/${notebookId}/publication`).send({ allowDownloads: true }).expect(200)).body as { slug: string };
+    const files = publishedNotebookResponseSchema.parse((await supertest(app).get(`/api/published/${withFiles.slug}`).expect(200)).body).files!;
+    const file = await raw(app, `/api/published/${withFiles.slug}/files/${files[0]!.uploadId}`, 'gzip, br');
+    expect(file.status).toBe(200);
+    expect(file.headers['content-encoding']).toBeUndefined();
+  });
+});
