@@ -14,11 +14,18 @@ export interface EngineRunOptions {
   cellTimeLimitMs?: number;
   /** Cells stopped in an earlier run by ending the worker (unchanged since): reported failed with this error, not computed. */
   stopped?: Record<string, EngineErrorData>;
+  /** The output serials the caller holds from the last run (see notebook/output-delta.ts): those unchanged are not sent again. */
+  held?: Record<string, number>;
 }
 
 /** The result of a run as it crosses the worker boundary (the cache stays in the worker). */
 export interface EngineRunResult {
+  /** Outputs the caller does not hold yet; with `kept`, every cell's output. */
   outputs: Record<string, CellOutput>;
+  /** Cells whose output is the one the caller holds (by `held`): the caller keeps its own object. */
+  kept?: string[];
+  /** Serial of every fresh output of this run: what to pass as `held` next time. */
+  serials?: Record<string, number>;
   /** Cell ids in run order. */
   order: string[];
   /** Cells computed in this run; the others came from the worker's cache. */

@@ -5,6 +5,7 @@ import type { EngineApi } from '../shared/engine-api.js';
 import { isEngineError } from '../shared/errors.js';
 import { compareRecordings } from '../shared/engine/compare.js';
 import { createFormulaEngine } from '../shared/formula/create-formula-engine.js';
+import { createOutputLedger } from '../shared/notebook/output-delta.js';
 import { runNotebook, staleCells, type RunCache } from '../shared/notebook/run-notebook.js';
 import { tableSeries, tableWindow } from '../shared/notebook/table-window.js';
 import { importRecording } from '../shared/recording/import-recording.js';
@@ -14,6 +15,7 @@ import type { Recording } from '../shared/recording/recording.js';
 const formulaEngine = createFormulaEngine();
 const slots = new Map<string, Recording>();
 let cache: RunCache | undefined;
+const ledger = createOutputLedger();
 
 const api: EngineApi = {
   async importRecording(bytes, fileName, options = {}) {
@@ -38,7 +40,7 @@ const api: EngineApi = {
   },
   async runNotebook(document, options = {}, onCellStart) {
     const started = performance.now();
-    const { cellTimeLimitMs, stopped } = options;
+    const { cellTimeLimitMs, stopped, held } = options;
     const result = runNotebook(document, Object.fromEntries(slots), cache, {
       engine: formulaEngine,
       ...(cellTimeLimitMs !== undefined ? { cellTimeLimitMs } : {}),
@@ -47,7 +49,8 @@ const api: EngineApi = {
       ...(onCellStart ? { onCellStart: (id: string) => void Promise.resolve(onCellStart(id)).catch(() => undefined) } : {}),
     });
     cache = result.cache;
-    return { outputs: result.outputs, order: result.order, computed: result.computed, durationMs: performance.now() - started };
+    const delta = ledger.delta(result.outputs, result.cache, held);
+    return { ...delta, order: result.order, computed: result.computed, durationMs: performance.now() - started };
   },
   async readCellTable(cellId, from, count) {
     const entry = cache?.entries[cellId];

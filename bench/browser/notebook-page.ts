@@ -33,14 +33,17 @@ export async function editorReady(page: Page): Promise<void> {
  * One edit of the benchmark formula: the cursor goes to the end of its first line
  * (`pedal_min = N`), the digit is selected, and one key press replaces it. With `runAtOnce`,
  * Shift+Enter follows (the notebook's "run now"); without, the notebook runs by itself after
- * its typing pause. Timed from the digit's key press to the cell's new output.
+ * its typing pause. Timed to the cell's new output from the press that asks for it:
+ * Shift+Enter, or the digit when the notebook runs by itself. (Playwright sends Shift+Enter
+ * only after the digit's press has been handled, tens of ms later on a busy machine: that gap
+ * is the harness, not the product, and is left out; the longest-task figure covers it.)
  */
 export async function editOnce(page: Page, digit: string, runAtOnce: boolean): Promise<EditTiming> {
   await page.locator(`[data-cell-id="${EDITED_CELL_ID}"] .monaco-editor .view-lines`).click();
   await page.keyboard.press('Control+Home');
   await page.keyboard.press('End');
   await page.keyboard.press('Shift+ArrowLeft');
-  await armEdit(page, EDITED_CELL_ID, digit);
+  await armEdit(page, EDITED_CELL_ID, digit, runAtOnce ? 'Enter' : digit);
   await page.keyboard.press(digit);
   if (runAtOnce) await page.keyboard.press('Shift+Enter');
   const timing = await editTiming(page, EDIT_TIMEOUT_MS);

@@ -19,9 +19,14 @@ export interface PageMarks {
 
 /** One timed edit, as the probe saw it. */
 export interface EditTiming {
-  /** Key press of the edit (event time stamp) to the edited cell's new output in the page, ms. */
+  /**
+   * The key press that asks for the output (event time stamp) to the edited cell's new output
+   * in the page, ms: Shift+Enter when the edit is run at once, else the edit's own key press.
+   */
   ms: number;
-  /** Longest main-thread task ('longtask' entries, so 0 = none of 50 ms or more) between the two, ms. */
+  /** The edit's own key press to the new output, ms (with Shift+Enter, includes the harness sending that press). */
+  fromTypedMs: number;
+  /** Longest main-thread task ('longtask' entries, so 0 = none of 50 ms or more) from the edit's key press to the output, ms. */
   longestTaskMs: number;
   /** Longest gap between animation frames in the same span, ms (a finer view of the same blocking). */
   longestFrameGapMs: number;
@@ -69,17 +74,20 @@ const PROBE = `(() => {
   watch();
   document.addEventListener('keydown', (ev) => {
     const e = b.edit;
-    if (e && e.start === undefined && ev.key === e.key) e.start = ev.timeStamp;
+    if (!e) return;
+    if (e.typed === undefined && ev.key === e.key) e.typed = ev.timeStamp;
+    if (e.typed !== undefined && e.start === undefined && ev.key === e.trigger) e.start = ev.timeStamp;
   }, true);
-  // Arms one edit: the next press of key starts the clock, the cell's next fresh output stops it.
-  b.arm = (cellId, key) => {
+  // Arms one edit: the press of key is the edit, the press of trigger (the same key, or the
+  // run key after it) starts the clock, and the cell's next fresh output stops it.
+  b.arm = (cellId, key, trigger) => {
     const cell = document.querySelector('[data-cell-id="' + cellId + '"]');
-    const e = { cellId, key, runsBefore: Number(cell ? cell.getAttribute('data-runs') : 0), frameGap: 0 };
+    const e = { cellId, key, trigger: trigger || key, runsBefore: Number(cell ? cell.getAttribute('data-runs') : 0), frameGap: 0 };
     b.edit = e;
     let last = performance.now();
     const frame = (t) => {
       if (e.done !== undefined || b.edit !== e) return;
-      if (e.start !== undefined && last >= e.start) e.frameGap = Math.max(e.frameGap, t - last);
+      if (e.typed !== undefined && last >= e.typed) e.frameGap = Math.max(e.frameGap, t - last);
       last = t;
       requestAnimationFrame(frame);
     };
@@ -89,8 +97,8 @@ const PROBE = `(() => {
     const e = b.edit;
     const finish = () => {
       clearTimeout(timer);
-      const longest = b.longTasks.filter(([s, d]) => s + d > e.start && s < e.done).reduce((m, [, d]) => Math.max(m, d), 0);
-      resolve({ ms: e.done - e.start, longestTaskMs: longest, longestFrameGapMs: e.frameGap });
+      const longest = b.longTasks.filter(([s, d]) => s + d > e.typed && s < e.done).reduce((m, [, d]) => Math.max(m, d), 0);
+      resolve({ ms: e.done - e.start, fromTypedMs: e.done - e.typed, longestTaskMs: longest, longestFrameGapMs: e.frameGap });
     };
     const timer = setTimeout(() => reject(new Error('edit output not seen within ' + timeoutMs + ' ms (start ' + e.start + ')')), timeoutMs);
     if (e.done !== undefined) finish(); else e.resolve = finish;
@@ -116,7 +124,7 @@ export async function installProbe(page: Page, expectCells = 0): Promise<void> {
 interface ProbeApi {
   marks: PageMarks;
   read: () => PageMarks;
-  arm: (cellId: string, key: string) => void;
+  arm: (cellId: string, key: string, trigger?: string) => void;
   waitEdit: (timeoutMs: number) => Promise<EditTiming>;
   longestTask: (from: number, to: number) => number;
   stuck: () => string[];
@@ -158,9 +166,9 @@ export async function longTasksSupported(page: Page): Promise<boolean> {
   });
 }
 
-/** Arms the probe for one edit of `cellId` started by pressing `key`. */
-export async function armEdit(page: Page, cellId: string, key: string): Promise<void> {
-  await page.evaluate(([id, k]) => (globalThis as ProbeGlobal).__cbBench?.arm(id!, k!), [cellId, key]);
+/** Arms the probe for one edit of `cellId` made by pressing `key`, timed from the press of `trigger` (default: `key`). */
+export async function armEdit(page: Page, cellId: string, key: string, trigger?: string): Promise<void> {
+  await page.evaluate(([id, k, t]) => (globalThis as ProbeGlobal).__cbBench?.arm(id!, k!, t), [cellId, key, trigger] as const);
 }
 
 /** Waits for the armed edit's output and returns its timing. */

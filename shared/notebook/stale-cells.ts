@@ -44,9 +44,24 @@ export function roughReads(cell: NotebookCell): Set<string> {
   }
 }
 
-/** What a cell's result depends on in itself: everything but display state like `collapsed`. */
+const contents = new WeakMap<NotebookCell, string>();
+const reads = new WeakMap<NotebookCell, ReadonlySet<string>>();
+
+function readsOf(cell: NotebookCell): ReadonlySet<string> {
+  let r = reads.get(cell);
+  if (r === undefined) reads.set(cell, (r = roughReads(cell)));
+  return r;
+}
+
+/**
+ * What a cell's result depends on in itself: everything but display state like `collapsed`.
+ * Documents are replaced, never changed, so an unchanged cell is the same object and its
+ * content is worked out once (the page asks on every keystroke).
+ */
 function contentOf(cell: NotebookCell): string {
-  return JSON.stringify([cell.kind, cell.name, cell.config]);
+  let content = contents.get(cell);
+  if (content === undefined) contents.set(cell, (content = JSON.stringify([cell.kind, cell.name, cell.config])));
+  return content;
 }
 
 /**
@@ -72,11 +87,10 @@ export function staleCells(before: NotebookDocument, after: NotebookDocument): s
     grew = false;
     for (const cell of after.cells) {
       if (stale.includes(cell.id)) continue;
-      const reads = roughReads(cell);
       const hit =
         old.get(cell.id) !== contentOf(cell) ||
         (cell.kind === 'import' && changedSlots.has(cell.config.slot)) ||
-        [...reads].some((n) => dirtyNames.has(n));
+        [...readsOf(cell)].some((n) => dirtyNames.has(n));
       if (!hit) continue;
       stale.push(cell.id);
       dirtyNames.add(cell.name);

@@ -4,6 +4,7 @@ import type { EngineApi, EngineImportOptions, EngineRunResult } from '../../shar
 import type { EngineErrorData } from '../../shared/errors.js';
 import type { CellOutput } from '../../shared/notebook/cell-output.js';
 import type { NotebookDocument } from '../../shared/notebook/document.js';
+import { mergeOutputs } from '../../shared/notebook/output-delta.js';
 import type { ImportResult } from '../../shared/recording/import-result.js';
 import type { Recording } from '../../shared/recording/recording.js';
 
@@ -52,6 +53,8 @@ export function createEngineClient(options: EngineClientOptions = {}) {
   const outputs = shallowRef<Record<string, CellOutput>>({});
   const lastRun = shallowRef<{ durationMs: number; computed: string[] } | null>(null);
   const lastError = shallowRef<EngineErrorData | null>(null);
+  // Serials of the outputs held in `outputs` (the worker then sends only what changed).
+  let held: Record<string, number> = {};
 
   async function restart(): Promise<void> {
     phase.value = 'restarting';
@@ -59,6 +62,7 @@ export function createEngineClient(options: EngineClientOptions = {}) {
     worker.terminate();
     worker = makeWorker();
     api = Comlink.wrap<EngineApi>(worker);
+    held = {};
     if (bound.size > 0) await api.bindSlots(Object.fromEntries(bound));
   }
 
@@ -91,11 +95,15 @@ export function createEngineClient(options: EngineClientOptions = {}) {
       timer = setTimeout(() => resolve('timeout'), runTimeLimitMs);
     });
     try {
-      const result = await Promise.race([api.runNotebook(document, { cellTimeLimitMs, ...(stopped.size > 0 ? { stopped: skip } : {}) }, onCellStart), timedOut]);
+      const options = { cellTimeLimitMs, held, ...(stopped.size > 0 ? { stopped: skip } : {}) };
+      const result = await Promise.race([api.runNotebook(document, options, onCellStart), timedOut]);
       if (result !== 'timeout') {
-        outputs.value = result.outputs;
+        // Unchanged outputs keep their objects, so their charts and tables are not drawn again.
+        const merged = result.kept ? mergeOutputs(outputs.value, { outputs: result.outputs, kept: result.kept }, result.order) : result.outputs;
+        outputs.value = merged;
+        held = result.serials ?? {};
         lastRun.value = { durationMs: result.durationMs, computed: result.computed };
-        return { ok: true, ...result };
+        return { ok: true, ...result, outputs: merged };
       }
       const cellId = runningCellId.value;
       const cell = document.cells.find((c) => c.id === cellId);
@@ -109,6 +117,7 @@ export function createEngineClient(options: EngineClientOptions = {}) {
         stopped.set(cell.id, { fingerprint: fingerprint(cell), error: onCell });
         const base = { cellId: cell.id, name: cell.name, kind: cell.kind, durationMs: runTimeLimitMs, cached: false, warnings: [] };
         outputs.value = { ...outputs.value, [cell.id]: { ...base, state: 'failed', error: onCell } };
+        delete held[cell.id];
       }
       lastError.value = error;
       await restart();

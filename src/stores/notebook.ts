@@ -12,6 +12,17 @@ import { cellStatus, type CellStatus } from './notebookCellStatus';
 
 export type { CellStatus } from './notebookCellStatus';
 
+/** A cell as other cells' forms list it. */
+export interface CellName {
+  id: string;
+  kind: CellKind;
+  name: string;
+}
+
+function sameStatus(a: CellStatus, b: CellStatus): boolean {
+  return a.state === b.state && a.label === b.label && a.detail === b.detail && a.durationMs === b.durationMs && a.cached === b.cached && a.runs === b.runs && a.waitsOn === b.waitsOn;
+}
+
 /** Where the notebook stands against the server copy. */
 export type SaveState = 'saved' | 'unsaved' | 'saving' | 'conflict' | 'failed';
 
@@ -56,6 +67,19 @@ export const useNotebookStore = defineStore('notebook', () => {
 
   const readOnly = computed(() => meta.value !== null && !meta.value.permissions.edit);
   const cells = computed<NotebookCell[]>(() => document.value?.cells ?? []);
+  /** Each cell's id, kind and name, in order: the same array until one of those changes (typing in a cell does not). */
+  let shownNames: CellName[] = [];
+  const cellNames = computed<CellName[]>(() => {
+    const next = cells.value.map((c) => ({ id: c.id, kind: c.kind, name: c.name }));
+    const same = next.length === shownNames.length && next.every((c, i) => c.id === shownNames[i]!.id && c.kind === shownNames[i]!.kind && c.name === shownNames[i]!.name);
+    if (!same) shownNames = next;
+    return shownNames;
+  });
+  /** The notebook's inputs: the same array until they change. */
+  const slots = computed<NotebookSlot[]>(() => document.value?.slots ?? []);
+  /** The notebook's parameters and title, each the same value until it changes (panels read these, not the document). */
+  const parameters = computed(() => document.value?.parameters ?? []);
+  const title = computed(() => document.value?.title ?? '');
   const canUndo = computed(() => undoStack.value.length > 0 && !readOnly.value);
   const canRedo = computed(() => redoStack.value.length > 0 && !readOnly.value);
   const saveState = computed<SaveState>(() => {
@@ -247,17 +271,24 @@ export const useNotebookStore = defineStore('notebook', () => {
     runningCellId.value = null;
   }
 
-  /** Each cell's state as the page shows it. */
+  /**
+   * Each cell's state as the page shows it. A cell whose state reads the same as before keeps
+   * its object, so a keystroke in one cell does not draw every other cell again.
+   */
+  let shownStatuses: Record<string, CellStatus> = {};
   const statuses = computed<Record<string, CellStatus>>(() => {
     const out: Record<string, CellStatus> = {};
     for (const cell of cells.value) {
-      out[cell.id] = cellStatus(cell, outputs.value[cell.id], {
+      const next = cellStatus(cell, outputs.value[cell.id], {
         stale: stale.value.has(cell.id),
         computing: runningCellId.value === cell.id,
         queued: running.value,
         runs: runCounts.value[cell.id] ?? 0,
       });
+      const shown = shownStatuses[cell.id];
+      out[cell.id] = shown !== undefined && sameStatus(shown, next) ? shown : next;
     }
+    shownStatuses = out;
     return out;
   });
 
@@ -271,6 +302,10 @@ export const useNotebookStore = defineStore('notebook', () => {
     meta,
     document,
     cells,
+    cellNames,
+    slots,
+    parameters,
+    title,
     readOnly,
     version,
     savedVersion,

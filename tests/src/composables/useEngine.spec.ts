@@ -1,7 +1,7 @@
 import * as Comlink from 'comlink';
 import { afterEach, describe, expect, it } from 'vitest';
 import { createEngineClient, type EngineClient } from '@/composables/useEngine';
-import type { EngineApi, EngineRunOptions } from '../../../shared/engine-api.js';
+import type { EngineApi, EngineRunOptions, EngineRunResult } from '../../../shared/engine-api.js';
 import { emptyNotebook, type NotebookDocument } from '../../../shared/notebook/index.js';
 import type { Recording } from '../../../shared/recording/recording.js';
 
@@ -122,5 +122,38 @@ describe('createEngineClient', () => {
     expect(client.outputs.value['c1']!.state).toBe('fresh');
     expect(client.lastRun.value).toEqual({ durationMs: 3, computed: ['c1'] });
     expect(log.terminated).toBe(0);
+  });
+
+  it('keeps its own output objects for the cells the worker says are unchanged, and says which it holds', async () => {
+    const log = { terminated: 0 };
+    const seen: (EngineRunOptions | undefined)[] = [];
+    const out = (id: string, durationMs: number, cached: boolean) => ({ cellId: id, name: id, kind: 'formula' as const, state: 'fresh' as const, durationMs, cached, warnings: [], result: { type: 'values' as const, values: { v: durationMs } } });
+    let run = 0;
+    client = createEngineClient({
+      createWorker: () =>
+        fakeWorker(
+          {
+            runNotebook: async (_d: NotebookDocument, o?: EngineRunOptions) => {
+              seen.push(o);
+              run++;
+              const result: EngineRunResult =
+                run === 1
+                  ? { outputs: { c1: out('c1', 5, false), c2: out('c2', 7, false) }, kept: [], serials: { c1: 1, c2: 2 }, order: ['c1', 'c2'], computed: ['c1', 'c2'], durationMs: 12 }
+                  : { outputs: { c2: out('c2', 9, false) }, kept: ['c1'], serials: { c1: 1, c2: 3 }, order: ['c1', 'c2'], computed: ['c2'], durationMs: 9 };
+              return result;
+            },
+          },
+          log,
+        ),
+    });
+    await client.run(doc);
+    const firstResult = client.outputs.value['c1']!.result;
+    const outcome = await client.run(doc);
+    expect(seen[0]?.held).toEqual({});
+    expect(seen[1]?.held).toEqual({ c1: 1, c2: 2 });
+    expect(outcome.ok && Object.keys(outcome.outputs)).toEqual(['c1', 'c2']);
+    expect(client.outputs.value['c1']!.result).toBe(firstResult);
+    expect(client.outputs.value['c1']).toMatchObject({ cached: true, durationMs: 0 });
+    expect(client.outputs.value['c2']!.result).toEqual({ type: 'values', values: { v: 9 } });
   });
 });
