@@ -16,7 +16,14 @@ export default defineConfig({
   },
   optimizeDeps: { include: ['mathjs', 'comlink'] },
   worker: { format: 'es' },
-  build: { outDir: 'dist/client', emptyOutDir: true, sourcemap: true, chunkSizeWarningLimit: 6000 },
+  build: {
+    outDir: 'dist/client',
+    emptyOutDir: true,
+    sourcemap: true,
+    chunkSizeWarningLimit: 6000,
+    // The app, and the published page's own small entry for signed-out readers.
+    rollupOptions: { input: { main: 'index.html', published: 'published.html' } },
+  },
   test: {
     setupFiles: ['tests/setup/fail-on-console.ts'],
     projects: [

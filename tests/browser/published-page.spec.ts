@@ -1,0 +1,127 @@
+import { existsSync, readFileSync } from 'node:fs';
+import { join } from 'node:path';
+import { gzipSync } from 'node:zlib';
+import type { Browser, Response } from 'playwright-core';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import type { PublishedListResponse, PublishedNotebookResponse } from '../../shared/api/publications.js';
+import { DEMO_PUBLISHED_NOTEBOOK } from '../../shared/demo/sample-files.js';
+import { launchBrowser, watchedPage } from './support/browser.js';
+import { startServer, type RunningServer } from './support/server.js';
+
+const CLIENT = join(import.meta.dirname, '..', '..', 'dist', 'client');
+
+/** Modules a reader's page must not load before a reader asks for something: the editor, the engine, the app's shell and kit, the chart library. */
+const NOT_FOR_READERS = /monaco-editor|\/workers\/|engine\.worker|NotebookView|ant-design-vue|@ant-design\/icons-vue|vega|@tanstack|pinia|vue-router|\/zod\/|mathjs|arquero|better-auth/;
+
+/** The scripts published.html loads before the page can draw: its entry, and what that imports statically (not `import()`). */
+function staticScripts(): string[] {
+  const html = readFileSync(join(CLIENT, 'published.html'), 'utf8');
+  const seen = new Set<string>();
+  const queue = [...html.matchAll(/<script type="module" crossorigin src="\/assets\/([^"]+\.js)"/g)].map((m) => m[1]!);
+  expect(queue, 'published.html has its own entry script').toHaveLength(1);
+  while (queue.length > 0) {
+    const file = queue.pop()!;
+    if (seen.has(file)) continue;
+    seen.add(file);
+    const code = readFileSync(join(CLIENT, 'assets', file), 'utf8');
+    for (const m of code.matchAll(/\bfrom\s*"\.\/([^"]+\.js)"|\bimport\s*"\.\/([^"]+\.js)"/g)) queue.push(m[1] ?? m[2]!);
+  }
+  return [...seen];
+}
+
+describe('the published page as built', () => {
+  it('loads none of the editor, engine, app shell, UI kit or chart library, and stays small', () => {
+    const files = staticScripts();
+    // Every chunk but the bundler's few-line runtime has a source map naming its modules.
+    const mapped = files.filter((f) => existsSync(join(CLIENT, 'assets', `${f}.map`)));
+    expect(files.filter((f) => !mapped.includes(f) && readFileSync(join(CLIENT, 'assets', f)).length > 1000)).toEqual([]);
+    const modules = mapped.flatMap((f) => (JSON.parse(readFileSync(join(CLIENT, 'assets', `${f}.map`), 'utf8')) as { sources: string[] }).sources);
+    expect(modules.some((m) => m.includes('src/views/PublishedView.vue')), 'the reader view is in the page').toBe(true);
+    expect(modules.some((m) => m.includes('node_modules/@vue/runtime-core')), 'the framework is in the page').toBe(true);
+    expect(modules.filter((m) => NOT_FOR_READERS.test(m))).toEqual([]);
+    // A budget, not a timing: every script of the first draw, compressed as the server sends it.
+    const gzipped = files.reduce((sum, f) => sum + gzipSync(readFileSync(join(CLIENT, 'assets', f))).length, 0);
+    expect(gzipped).toBeLessThan(100_000);
+  });
+});
+
+describe('a signed-out reader on the published page', () => {
+  let server: RunningServer;
+  let browser: Browser;
+  let slug: string;
+  let stored: PublishedNotebookResponse;
+
+  beforeAll(async () => {
+    [server, browser] = await Promise.all([startServer({}, { readyWithinMs: 240_000 }), launchBrowser()]);
+    const list = (await (await fetch(`${server.url}/api/published`)).json()) as PublishedListResponse;
+    slug = list.publications.find((p) => p.title === DEMO_PUBLISHED_NOTEBOOK.title)!.slug;
+    stored = (await (await fetch(`${server.url}/api/published/${slug}`)).json()) as PublishedNotebookResponse;
+  }, 300_000);
+
+  afterAll(async () => {
+    await browser?.close();
+    await server?.stop();
+  });
+
+  it('gets every chart drawn by the server, its snapshot from the preload, everything compressed, and no policy report', { timeout: 120_000 }, async () => {
+    const charts = stored.snapshot.cells.filter((c) => c.result?.type === 'chart');
+    expect(charts.length).toBeGreaterThan(0);
+    expect(charts.every((c) => c.result?.type === 'chart' && c.result.svg?.startsWith('<svg')), 'the demo was published with drawn charts').toBe(true);
+
+    const w = await watchedPage(browser, { width: 1280, height: 860 });
+    const responses: Response[] = [];
+    w.page.on('response', (r) => responses.push(r));
+    try {
+      await w.page.goto(`${server.url}/p/${slug}`);
+      await w.page.getByTestId('published-article').waitFor();
+      const frames = w.page.locator('[data-kind=chart] .chart-view');
+      expect(await frames.count()).toBe(charts.length);
+      expect(await frames.evaluateAll((fs) => fs.map((f) => `${(f as HTMLElement).dataset['ready']}/${(f as HTMLElement).dataset['drawn']}`))).toEqual(charts.map(() => 'true/server'));
+      expect(await w.page.locator('[data-kind=chart] .chart-view__canvas svg.marks').count()).toBe(charts.length);
+      await w.page.waitForLoadState('networkidle');
+
+      const paths = responses.map((r) => new URL(r.url()).pathname);
+      // One snapshot request, started by the page's preload link and handed to the page's own fetch.
+      expect(paths.filter((p) => p === `/api/published/${slug}`)).toHaveLength(1);
+      const initiator = await w.page.evaluate((s) => performance.getEntriesByType('resource').filter((e) => e.name.endsWith(`/api/published/${s}`)).map((e) => (e as PerformanceResourceTiming).initiatorType), slug);
+      expect(initiator).toEqual(['link']);
+      // Neither the chart library nor the editor came along.
+      expect(paths.filter((p) => /embed|vega|monaco|editor|engine\.worker|NotebookView/.test(p))).toEqual([]);
+      // Scripts, styles and the snapshot arrive compressed (all but the few under the 1 kB threshold, where it gains nothing).
+      const textual = responses.filter((r) => /\.(js|css)$|^\/api\/published\//.test(new URL(r.url()).pathname) && r.status() === 200);
+      const sent = await Promise.all(textual.map(async (r) => ({ path: new URL(r.url()).pathname, encoding: (await r.allHeaders())['content-encoding'], size: (await r.body()).length })));
+      expect(sent.filter((r) => r.size > 1024).length).toBeGreaterThan(3);
+      expect(sent.filter((r) => r.size > 1024 && !/^(br|gzip)$/.test(r.encoding ?? ''))).toEqual([]);
+      expect(w.problems).toEqual([]);
+    } finally {
+      await w.context.close();
+    }
+  });
+
+  it('prints on A4 with the charts scaled to the paper and no page chrome', { timeout: 120_000 }, async () => {
+    const w = await watchedPage(browser, { width: 1280, height: 860 });
+    try {
+      await w.page.goto(`${server.url}/p/${slug}`);
+      await w.page.getByTestId('published-article').waitFor();
+      await w.page.emulateMedia({ media: 'print' });
+      // An A4 page's printable width at 96 dpi (210 mm less the page's 16 mm margins).
+      await w.page.setViewportSize({ width: 673, height: 950 });
+      const layout = await w.page.evaluate(() => ({
+        chrome: [...document.querySelectorAll('.published__bar, .chart-view__actions, .snapshot__toc')].map((e) => getComputedStyle(e).display),
+        charts: [...document.querySelectorAll('.chart-view__canvas svg.marks')].map((s) => [s.getBoundingClientRect().width, s.closest('.chart-view')!.getBoundingClientRect().width]),
+      }));
+      expect(layout.chrome.length).toBeGreaterThan(1);
+      expect(layout.chrome.every((d) => d === 'none')).toBe(true);
+      expect(layout.charts.length).toBeGreaterThan(0);
+      for (const [svg, frame] of layout.charts) {
+        expect(svg).toBeGreaterThan(300);
+        expect(svg).toBeLessThanOrEqual(frame! + 0.5);
+      }
+      const pdf = await w.page.pdf({ format: 'A4', printBackground: true });
+      expect(pdf.subarray(0, 5).toString()).toBe('%PDF-');
+      expect(w.problems).toEqual([]);
+    } finally {
+      await w.context.close();
+    }
+  });
+});
