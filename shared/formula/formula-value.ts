@@ -26,17 +26,56 @@ export function isQuantity(v: unknown): v is Quantity {
   return typeof v === 'object' && v !== null && (v as Quantity).quantity === true && typeof (v as Quantity).unit === 'string';
 }
 
+// The typed array each converted list was made from. mathjs never changes a list in place
+// (assigning into one copies it), so the trade's functions can read the original column
+// instead of converting the list back.
+const sources = new WeakMap<unknown[], Float64Array>();
+
+function listFrom(v: Float64Array): number[] {
+  const out: number[] = [];
+  for (let i = 0; i < v.length; i++) out.push(v[i]!);
+  sources.set(out, v);
+  return out;
+}
+
+/**
+ * The column a list given to a formula was made from, when it is that very list unchanged
+ * (same length and ends, checked as a guard); undefined for any other list.
+ */
+export function columnSourceOf(list: unknown[]): Float64Array | undefined {
+  const source = sources.get(list);
+  if (source === undefined || source.length !== list.length) return undefined;
+  const last = list.length - 1;
+  const same = (i: number) => Object.is(list[i], source[i]);
+  return list.length === 0 || (same(0) && same(last) && same(last >> 1)) ? source : undefined;
+}
+
 /**
  * Converts a value for use inside mathjs: typed arrays become plain arrays (mathjs
  * works on those), quantities become mathjs units, records are copied field by field.
+ * A record's fields are converted when first read: a formula that reads two columns of a
+ * wide table of a long ride pays for those two, not for every column.
  */
 export function toMathValue(math: MathJsInstance, v: FormulaValue): unknown {
-  if (v instanceof Float64Array) return Array.from(v);
+  if (v instanceof Float64Array) return listFrom(v);
   if (Array.isArray(v)) return v.map((x) => toMathValue(math, x));
   if (isQuantity(v)) return math.unit(v.value, v.unit);
   if (typeof v === 'object' && v !== null) {
     const out: Record<string, unknown> = {};
-    for (const [k, x] of Object.entries(v)) out[k] = toMathValue(math, x);
+    for (const [k, x] of Object.entries(v)) {
+      Object.defineProperty(out, k, {
+        enumerable: true,
+        configurable: true,
+        get() {
+          const converted = toMathValue(math, x);
+          Object.defineProperty(out, k, { value: converted, enumerable: true, configurable: true, writable: true });
+          return converted;
+        },
+        set(value: unknown) {
+          Object.defineProperty(out, k, { value, enumerable: true, configurable: true, writable: true });
+        },
+      });
+    }
     return out;
   }
   return v;

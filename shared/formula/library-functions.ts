@@ -1,4 +1,5 @@
 import { EngineError } from '../errors.js';
+import { columnSourceOf } from './formula-value.js';
 import { rollingMean } from '../engine/rolling-mean.js';
 import { blandAltman } from '../engine/stats/bland-altman.js';
 import { driftFit } from '../engine/stats/drift-fit.js';
@@ -14,6 +15,8 @@ function column(value: unknown, fn: string, arg: string): Float64Array {
   if (value instanceof Float64Array) return value;
   if (typeof value === 'number') return Float64Array.of(value);
   if (Array.isArray(value)) {
+    const source = columnSourceOf(value);
+    if (source !== undefined) return source;
     const out = new Float64Array(value.length);
     for (let i = 0; i < value.length; i++) {
       const v = value[i];

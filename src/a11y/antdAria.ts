@@ -43,14 +43,23 @@ export function repairAntdAria(root: Document): void {
   for (const icon of root.querySelectorAll('.anticon[role="presentation"][aria-label]')) fixDecorativeIcon(icon);
 }
 
+const BUSY = '.monaco-editor, .chart-view__canvas';
+
+function insideBusyWidget(record: MutationRecord): boolean {
+  const target = record.target instanceof Element ? record.target : record.target.parentElement;
+  return target !== null && target.closest(BUSY) !== null;
+}
+
 /**
  * Keeps the document repaired as widgets render, open and close. Answers a function that
  * stops watching.
  */
 export function watchAntdAria(root: Document): () => void {
   let queued = false;
-  const observer = new MutationObserver(() => {
-    if (queued) return;
+  const observer = new MutationObserver((records) => {
+    // The code editor and the charts change on every keystroke and redraw and hold no
+    // ant-design widgets: a pass over the document for those would only cost time.
+    if (queued || records.every(insideBusyWidget)) return;
     queued = true;
     queueMicrotask(() => {
       queued = false;
