@@ -4,6 +4,8 @@ export interface FitFrames {
   dataStarts: Int32Array;
   /** Global message number of every data message (same order). */
   dataGlobals: Int32Array;
+  /** Byte offset of the definition message each data message uses (same order). */
+  dataDefs: Int32Array;
   /** Byte just after the last complete message. */
   end: number;
   /** Manufacturer and product numbers of the first file_id message (the parser turns them into names). */
@@ -30,6 +32,7 @@ export function frameFit(bytes: Uint8Array, headerSize: number, dataEnd: number)
   // Typed arrays sized from the byte count, doubled when full and cut to the count at the end.
   let dataStarts = new Int32Array(Math.max(16, Math.ceil((dataEnd - headerSize) / GUESS_MESSAGE_BYTES)));
   let dataGlobals = new Int32Array(dataStarts.length);
+  let dataDefs = new Int32Array(dataStarts.length);
   let count = 0;
   let at = headerSize;
   let failure: FitFrames['failure'];
@@ -38,32 +41,11 @@ export function frameFit(bytes: Uint8Array, headerSize: number, dataEnd: number)
     const compressed = (header & 0x80) !== 0;
     const local = compressed ? (header >>> 5) & 0x03 : header & 0x0f;
     if (!compressed && (header & 0x40) !== 0) {
-      if (at + 6 > dataEnd) {
-        failure = { byte: at, reason: 'a message definition is cut short' };
+      const next = readDefinition(bytes, at, dataEnd, local, defSize, defGlobal, defFieldsAt);
+      if (next < 0) {
+        failure = { byte: at, reason: next === CUT_DEVELOPER ? 'a developer field definition is cut short' : 'a message definition is cut short' };
         break;
       }
-      const littleEndian = bytes[at + 2] === 0;
-      const global = littleEndian ? bytes[at + 3]! | (bytes[at + 4]! << 8) : (bytes[at + 3]! << 8) | bytes[at + 4]!;
-      const fields = bytes[at + 5]!;
-      let next = at + 6 + fields * 3;
-      if (next > dataEnd) {
-        failure = { byte: at, reason: 'a message definition is cut short' };
-        break;
-      }
-      let size = 0;
-      for (let f = 0; f < fields; f++) size += bytes[at + 6 + f * 3 + 1]!;
-      if ((header & 0x20) !== 0) {
-        const devEnd = next + 1 > dataEnd ? Infinity : next + 1 + bytes[next]! * 3;
-        if (devEnd > dataEnd) {
-          failure = { byte: at, reason: 'a developer field definition is cut short' };
-          break;
-        }
-        for (let f = next + 1; f < devEnd; f += 3) size += bytes[f + 1]!;
-        next = devEnd;
-      }
-      defSize[local] = size;
-      defGlobal[local] = global;
-      defFieldsAt[local] = at;
       at = next;
       continue;
     }
@@ -80,16 +62,53 @@ export function frameFit(bytes: Uint8Array, headerSize: number, dataEnd: number)
     if (count === dataStarts.length) {
       dataStarts = grow(dataStarts);
       dataGlobals = grow(dataGlobals);
+      dataDefs = grow(dataDefs);
     }
     if (global === FILE_ID && !fileId) fileId = readFileIdNumbers(bytes, defFieldsAt[local]!, at + 1);
     dataStarts[count] = at;
+    dataDefs[count] = defFieldsAt[local]!;
     dataGlobals[count++] = global;
     at += 1 + size;
   }
-  return { dataStarts: dataStarts.subarray(0, count), dataGlobals: dataGlobals.subarray(0, count), end: at, ...(fileId && { fileId }), ...(failure && { failure }) };
+  return {
+    dataStarts: dataStarts.subarray(0, count),
+    dataGlobals: dataGlobals.subarray(0, count),
+    dataDefs: dataDefs.subarray(0, count),
+    end: at,
+    ...(fileId && { fileId }),
+    ...(failure && { failure }),
+  };
 }
 
 const FILE_ID = 0;
+const CUT = -1;
+const CUT_DEVELOPER = -2;
+
+/**
+ * Records the definition message at `at` for its local type (content size, global number, where it
+ * is) and returns the byte after it, or {@link CUT} / {@link CUT_DEVELOPER} when it runs past `dataEnd`.
+ * Apart from the framing loop, which runs once per message: definitions are few.
+ */
+function readDefinition(bytes: Uint8Array, at: number, dataEnd: number, local: number, defSize: Int32Array, defGlobal: Int32Array, defFieldsAt: Int32Array): number {
+  if (at + 6 > dataEnd) return CUT;
+  const littleEndian = bytes[at + 2] === 0;
+  const global = littleEndian ? bytes[at + 3]! | (bytes[at + 4]! << 8) : (bytes[at + 3]! << 8) | bytes[at + 4]!;
+  const fields = bytes[at + 5]!;
+  let next = at + 6 + fields * 3;
+  if (next > dataEnd) return CUT;
+  let size = 0;
+  for (let f = 0; f < fields; f++) size += bytes[at + 6 + f * 3 + 1]!;
+  if ((bytes[at]! & 0x20) !== 0) {
+    const devEnd = next + 1 > dataEnd ? Infinity : next + 1 + bytes[next]! * 3;
+    if (devEnd > dataEnd) return CUT_DEVELOPER;
+    for (let f = next + 1; f < devEnd; f += 3) size += bytes[f + 1]!;
+    next = devEnd;
+  }
+  defSize[local] = size;
+  defGlobal[local] = global;
+  defFieldsAt[local] = at;
+  return next;
+}
 
 function grow(a: Int32Array<ArrayBuffer>): Int32Array<ArrayBuffer> {
   const b = new Int32Array(a.length * 2);

@@ -11,8 +11,9 @@ import { decodeUtf8 } from './text-decode.js';
  * `no_power`, `too_short`, `header_only`, `no_numeric_columns`, `no_time_column`, `mixed_units`, ...)
  * and a message naming the file and where in it.
  *
- * The FIT and CSV readers (and their libraries, fit-file-parser and papaparse) are loaded on
- * first use of their format, so reading one CSV file never loads the FIT decoder.
+ * The FIT and CSV readers are loaded on first use of their format, so reading one CSV file never
+ * loads the FIT decoder; fit-file-parser itself loads only for a FIT file Cogbook's own decoder
+ * leaves to it (see `parseFit`).
  *
  * @example
  * const result = await importRecording(bytes, 'reference.fit', { maxBytes: 50e6 });
