@@ -1,7 +1,7 @@
 import FitParser from 'fit-file-parser';
 import Papa from 'papaparse';
 import { parseCsv } from '../shared/recording/parse-csv.js';
-import { parseFit } from '../shared/recording/parse-fit.js';
+import { parseFit, type FitDecoder } from '../shared/recording/parse-fit.js';
 import { writeCsv } from '../shared/recording/write-csv.js';
 import { writeFit } from '../shared/recording/write-fit.js';
 import { deviceView } from '../shared/synthetic/device-view.js';
@@ -13,6 +13,10 @@ import type { BenchOptions, BenchRow } from './types.js';
  * Import cost against the bare library parse of the same bytes, per format: value = Cogbook's
  * import (checks, parse, recording model), baseline = the library alone (fit-file-parser mode
  * 'list'; papaparse with the same options). Ratio 1.30 = 30 % model-building overhead (target: below).
+ * FIT has two rows: Cogbook's own decoder (what every ordinary file takes: it reads the bytes into
+ * the model without fit-file-parser, so its ratio says how it compares with the library's parse
+ * alone), and the fit-file-parser path (what a file the own decoder declines takes: the library's
+ * parse plus Cogbook's checks and model, the overhead the target is about).
  */
 export async function benchImport(options: BenchOptions = { quick: false }): Promise<BenchRow[]> {
   const hours = options.quick ? 1 : 4;
@@ -22,16 +26,15 @@ export async function benchImport(options: BenchOptions = { quick: false }): Pro
 
   const fitRide = synthesizeRide({ seed: 1, blocks });
   const fit = writeFit(deviceView(fitRide, device).recording);
-  const fitRow = await compare(
-    reps,
-    async () => {
-      const result = await parseFit(fit, 'bench.fit');
-      if (!result.ok) throw new Error(result.error.message);
-    },
-    async () => {
-      await new FitParser({ mode: 'list' }).parseAsync(fit as unknown as ArrayBuffer);
-    },
-  );
+  const bareParse = async (): Promise<void> => {
+    await new FitParser({ mode: 'list' }).parseAsync(fit as unknown as ArrayBuffer);
+  };
+  const importWith = (decoder: FitDecoder) => async (): Promise<void> => {
+    const result = await parseFit(fit, 'bench.fit', {}, decoder);
+    if (!result.ok) throw new Error(result.error.message);
+  };
+  const fitRow = await compare(reps, importWith('own'), bareParse);
+  const fitLibraryRow = await compare(reps, importWith('library'), bareParse);
 
   const csvRide = synthesizeRide({ seed: 2, blocks, rateHz: 10 });
   const csvView = deviceView(csvRide, { ...device, intervalS: 0.1 }).recording;
@@ -60,8 +63,13 @@ export async function benchImport(options: BenchOptions = { quick: false }): Pro
     ratio: r.value / r.baseline,
     note: `baseline: ${baselineName} alone; overhead ${(100 * (r.value / r.baseline - 1)).toFixed(0)} % (target < 30 %); fastest of ${reps} interleaved runs`,
   });
+  const fitSize = `${(fit.length / 1e6).toFixed(2)} MB`;
   return [
-    row(`import ${hours} h 1 Hz FIT (${(fit.length / 1e6).toFixed(2)} MB)`, fitRow, 'fit-file-parser'),
+    {
+      ...row(`import ${hours} h 1 Hz FIT (${fitSize}), own decoder`, fitRow, 'fit-file-parser'),
+      note: `Cogbook's whole import (checks, CRC, own decoding, model) against fit-file-parser's parse alone of the same bytes, which it no longer runs: below 1 = cheaper than the bare library parse; fastest of ${reps} interleaved runs`,
+    },
+    row(`import ${hours} h 1 Hz FIT (${fitSize}), fit-file-parser path`, fitLibraryRow, 'fit-file-parser'),
     row(`import ${hours} h 10 Hz CSV, 16 columns (${(wide.length / 1e6).toFixed(1)} MB)`, wideRow, 'papaparse'),
     row(`import ${hours} h 10 Hz CSV, 5 columns (${(narrow.length / 1e6).toFixed(1)} MB)`, narrowRow, 'papaparse'),
   ];
