@@ -1,38 +1,159 @@
 import { readFileSync, statSync } from 'node:fs';
 import { join } from 'node:path';
+import { pathToFileURL } from 'node:url';
 import { Router } from 'express';
+import type { PublishedNotebookResponse } from '../../shared/api/publications.js';
 import { publicationSlugParamsSchema } from '../../shared/api/publications.js';
+import type { Snapshot } from '../../shared/api/snapshots.js';
+import type { Db } from '../db/client.js';
+import { findPublicationBySlug } from '../db/repositories/publications.js';
+import { findUploadBySha } from '../db/repositories/uploads.js';
+import { revisionDocument } from '../services/snapshot.js';
+
+/** The server's render of the published page (src/published-ssr.ts, built into dist/ssr). */
+interface PublishedRenderer {
+  renderPublishedPage(slug: string, page: PublishedNotebookResponse): Promise<string>;
+}
+
+export interface PublishedPageOptions {
+  /** The published page's content, as `GET /api/published/:slug` answers it; undefined when nothing is published there. */
+  read: (slug: string) => Promise<PublishedNotebookResponse | undefined>;
+  /** Folder of the server render's build (default `<clientDir>/../ssr`). */
+  ssrDir?: string;
+}
+
+/** Rendered pages kept, by slug and publication (a page of a large finding is about 1 MB of HTML). */
+const KEPT_PAGES = 16;
 
 /**
  * The published page for signed-out readers: the client build's published.html (an entry of
- * its own, without the editor's code), with a preload link that starts the page's one API
- * request, `GET /api/published/:slug`, while the browser is still reading the HTML, in
- * parallel with the scripts. Without a built published.html the app's own page serves these
- * addresses (its router has the same route).
+ * its own, without the editor's code) with
+ * - the finding rendered into it by the server (title, numbers, tables, notes and the charts
+ *   the server drew at publishing), so a reader sees it before any script runs; the page's
+ *   script takes that markup over afterwards. Left out when some chart was not drawn on the
+ *   server, when nothing is published at the address, or without a server render build: the
+ *   page's script then renders everything itself, as it always can;
+ * - a preload link that starts the page's one API request, `GET /api/published/:slug`, while
+ *   the browser is still reading the HTML, in parallel with the scripts.
+ * The page's style sheets are written into it (see inlineStyles). Without a built published.html
+ * the app's own page serves these addresses (its router has the same route).
  */
-export function publishedPageRoutes(clientDir: string): Router {
+export function publishedPageRoutes(clientDir: string, options: PublishedPageOptions): Router {
   const router = Router();
-  const file = join(clientDir, 'published.html');
-  let cached: { mtimeMs: number; html: string } | undefined;
-  const template = (): string | undefined => {
+  const template = watchedFile(join(clientDir, 'published.html'), (text) => inlineStyles(text, clientDir));
+  const ssrFile = join(options.ssrDir ?? join(clientDir, '..', 'ssr'), 'published-ssr.js');
+  // A new build brings a new render and forgets the pages the old one made.
+  const kept = new Map<string, string>();
+  const renderer = watchedFile(ssrFile, (_text, mtimeMs) => {
+    kept.clear();
+    return import(`${pathToFileURL(ssrFile).href}?v=${mtimeMs}`) as Promise<PublishedRenderer>;
+  });
+
+  async function article(slug: string): Promise<{ html: string; title: string } | undefined> {
+    const render = renderer();
+    if (!render) return undefined;
+    // Not published (or not readable now): the page's script says so.
+    const page = await options.read(slug).catch(() => undefined);
+    if (!page || page.snapshot.cells.some((c) => c.result?.type === 'chart' && !c.result.svg)) return undefined;
+    const key = JSON.stringify([slug, page.publishedAt, page.revision, page.title, page.description, page.publishedBy, page.allowDownloads, page.files]);
+    let html = kept.get(key);
+    if (html === undefined) {
+      try {
+        html = await (await render).renderPublishedPage(slug, page);
+      } catch {
+        return undefined; // a render that fails leaves the page to its script
+      }
+      kept.set(key, html);
+      while (kept.size > KEPT_PAGES) kept.delete(kept.keys().next().value!);
+    }
+    return { html, title: page.title };
+  }
+
+  router.get(['/p/:slug', '/published/:slug'], async (req, res, next) => {
+    let html = template();
+    if (html === undefined) return next();
+    const parsed = publicationSlugParamsSchema.safeParse(req.params);
+    if (parsed.success) {
+      const slug = parsed.data.slug;
+      // The same request the page's script makes (fetch: CORS mode, same-origin credentials), so the browser hands it the preloaded answer.
+      // First thing in the head after the title, so it starts before the scripts and styles.
+      html = html.replace('</title>', `</title>\n    <link rel="preload" href="/api/published/${encodeURIComponent(slug)}" as="fetch" crossorigin="anonymous">`);
+      const rendered = await article(slug);
+      if (rendered) {
+        html = html
+          .replace(/<title>[^<]*<\/title>/, `<title>${escapeHtml(rendered.title)} · Cogbook</title>`)
+          .replace('<div id="app"></div>', () => `<div id="app" data-rendered="server">${rendered.html}</div>`);
+      }
+    }
+    res.setHeader('Cache-Control', 'no-cache');
+    res.type('html').send(html);
+  });
+  return router;
+}
+
+/**
+ * The page's own style sheets written into it (the policy allows inline styles), so the
+ * browser can paint the finding as soon as it has the HTML, without a round trip per sheet.
+ * A sheet that cannot be read stays a link.
+ */
+function inlineStyles(html: string, clientDir: string): string {
+  return html.replace(/<link rel="stylesheet"(?: crossorigin)? href="\/assets\/([\w.-]+\.css)">/g, (link, file: string) => {
+    try {
+      const css = readFileSync(join(clientDir, 'assets', file), 'utf8');
+      return css.includes('</') ? link : `<style>${css}</style>`;
+    } catch {
+      return link;
+    }
+  });
+}
+
+/** A file's contents made into `T`, read again (and made again) whenever the file changes; undefined while it is missing. */
+function watchedFile<T>(file: string, make: (text: string, mtimeMs: number) => T): () => T | undefined {
+  let cached: { mtimeMs: number; value: T } | undefined;
+  return () => {
     let mtimeMs: number;
     try {
       mtimeMs = statSync(file).mtimeMs;
     } catch {
       return undefined;
     }
-    // Read again after a new build, as the app's own page is.
-    if (cached?.mtimeMs !== mtimeMs) cached = { mtimeMs, html: readFileSync(file, 'utf8') };
-    return cached.html;
+    if (cached?.mtimeMs !== mtimeMs) cached = { mtimeMs, value: make(readFileSync(file, 'utf8'), mtimeMs) };
+    return cached.value;
   };
-  router.get(['/p/:slug', '/published/:slug'], (req, res, next) => {
-    const html = template();
-    if (html === undefined) return next();
-    const parsed = publicationSlugParamsSchema.safeParse(req.params);
-    // The same request the page's script makes (fetch: CORS mode, same-origin credentials), so the browser hands it the preloaded answer.
-    const preload = parsed.success ? `<link rel="preload" href="/api/published/${encodeURIComponent(parsed.data.slug)}" as="fetch" crossorigin="anonymous">` : '';
-    res.setHeader('Cache-Control', 'no-cache');
-    res.type('html').send(preload ? html.replace('</head>', `    ${preload}\n  </head>`) : html);
-  });
-  return router;
+}
+
+/**
+ * A published page's content for the server's render: what `GET /api/published/:slug` answers
+ * (the page's script takes the render over with that answer, so the two must agree), or
+ * undefined when nothing is published at `slug`.
+ */
+export async function readPublishedForPage(db: Db, slug: string): Promise<PublishedNotebookResponse | undefined> {
+  const found = await findPublicationBySlug(db, slug);
+  if (!found) return undefined;
+  const snapshot = found.snapshot as Snapshot;
+  const document = await revisionDocument(db, found.notebookId, found.revision);
+  let files: PublishedNotebookResponse['files'] = null;
+  if (found.allowDownloads) {
+    files = [];
+    for (const input of snapshot.inputs) {
+      const upload = await findUploadBySha(db, input.sha256);
+      if (upload) files.push({ uploadId: upload.id, slot: input.slot, fileName: input.fileName, format: input.format, size: input.size });
+    }
+  }
+  return {
+    slug: found.slug,
+    title: found.title,
+    description: document.description,
+    publishedBy: found.publishedByName === null ? null : { name: found.publishedByName },
+    publishedAt: found.publishedAt.toISOString(),
+    revision: found.revision,
+    snapshot,
+    allowDownloads: found.allowDownloads,
+    files,
+  };
+}
+
+const ESCAPES: Record<string, string> = { '&': '&amp;', '<': '&lt;', '>': '&gt;', '"': '&quot;', "'": '&#39;' };
+function escapeHtml(text: string): string {
+  return text.replace(/[&<>"']/g, (c) => ESCAPES[c]!);
 }

@@ -98,6 +98,47 @@ describe('a signed-out reader on the published page', () => {
     }
   });
 
+  it('has the finding, charts drawn, in the HTML itself: readable before (and without) any script', { timeout: 120_000 }, async () => {
+    const context = await browser.newContext({ viewport: { width: 1280, height: 860 }, javaScriptEnabled: false });
+    try {
+      const page = await context.newPage();
+      await page.goto(`${server.url}/p/${slug}`);
+      expect(await page.title()).toBe(`${stored.title} · Cogbook`);
+      expect(await page.locator('h1').first().textContent()).toBe(stored.title);
+      expect(await page.locator('[data-snapshot-cell]').evaluateAll((els) => els.map((e) => (e as HTMLElement).dataset['snapshotCell']))).toEqual(stored.snapshot.cells.map((c) => c.name));
+      const charts = stored.snapshot.cells.filter((c) => c.result?.type === 'chart').length;
+      expect(await page.locator('[data-kind=chart] .chart-view[data-ready=true] .chart-view__canvas svg.marks').count()).toBe(charts);
+      // Drawn, not just present: each chart has its size on the page.
+      const sizes = await page.locator('[data-kind=chart] svg.marks').evaluateAll((svgs) => svgs.map((s) => s.getBoundingClientRect().width));
+      expect(sizes.every((w) => w > 300)).toBe(true);
+    } finally {
+      await context.close();
+    }
+  });
+
+  it('takes the server\'s markup over in any time zone without a mismatch, and then answers clicks', { timeout: 120_000 }, async () => {
+    const context = await browser.newContext({ viewport: { width: 1280, height: 860 }, timezoneId: 'Pacific/Auckland' });
+    const problems: string[] = [];
+    try {
+      const page = await context.newPage();
+      page.on('console', (m) => (m.type() === 'error' || m.type() === 'warning') && problems.push(m.text()));
+      page.on('pageerror', (e) => problems.push(e.message));
+      await page.goto(`${server.url}/p/${slug}`);
+      await page.waitForFunction(() => !!(document.getElementById('app') as { __vue_app__?: unknown } | null)?.__vue_app__);
+      // The date in the reader's own time zone (the server wrote it in its own).
+      const shown = await page.locator('.published__byline time').textContent();
+      expect(shown).toBe(new Intl.DateTimeFormat('en-GB', { dateStyle: 'medium', timeStyle: 'short', timeZone: 'Pacific/Auckland' }).format(Date.parse(stored.publishedAt)));
+      await page.locator('button[aria-label="Export chart"]').first().click();
+      expect(await page.getByRole('menuitem').allTextContents()).toEqual(['Picture (PNG)', 'Vector drawing (SVG)', 'Chart data (CSV)']);
+      const download = page.waitForEvent('download');
+      await page.getByRole('menuitem', { name: 'Vector drawing (SVG)' }).click();
+      expect((await download).suggestedFilename()).toMatch(/\.svg$/);
+      expect(problems).toEqual([]);
+    } finally {
+      await context.close();
+    }
+  });
+
   it('prints on A4 with the charts scaled to the paper and no page chrome', { timeout: 120_000 }, async () => {
     const w = await watchedPage(browser, { width: 1280, height: 860 });
     try {

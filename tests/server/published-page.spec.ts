@@ -1,8 +1,9 @@
-import { mkdirSync, rmSync, writeFileSync } from 'node:fs';
+import { mkdirSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { get, type IncomingHttpHeaders } from 'node:http';
 import type { AddressInfo } from 'node:net';
 import { join } from 'node:path';
 import { brotliDecompressSync, gunzipSync } from 'node:zlib';
+import { sql } from 'drizzle-orm';
 import type { Express } from 'express';
 import supertest from 'supertest';
 import { afterAll, beforeAll, beforeEach, describe, expect, it } from 'vitest';
@@ -100,6 +101,10 @@ describe('the SVG check', () => {
   });
 });
 
+/** A stand-in for the client build's published.html. */
+const READER_HTML =
+  '<!doctype html><html><head><title>Published finding</title><script type="module" src="/assets/published-abc.js"></script></head><body>reader<div id="app"></div></body></html>';
+
 describe('the published page and compressed responses', () => {
   let root: string;
   const script = `console.log(${JSON.stringify('a chart page '.repeat(400))});`;
@@ -108,10 +113,7 @@ describe('the published page and compressed responses', () => {
     root = join(t.config.dataDir, 'root');
     mkdirSync(join(root, 'dist', 'client', 'assets'), { recursive: true });
     writeFileSync(join(root, 'dist', 'client', 'index.html'), '<!doctype html><html><head><title>Cogbook</title></head><body>app</body></html>');
-    writeFileSync(
-      join(root, 'dist', 'client', 'published.html'),
-      '<!doctype html><html><head><title>Published finding</title><script type="module" src="/assets/published-abc.js"></script></head><body>reader</body></html>',
-    );
+    writeFileSync(join(root, 'dist', 'client', 'published.html'), READER_HTML);
     writeFileSync(join(root, 'dist', 'client', 'assets', 'published-abc.js'), script);
   });
   afterAll(() => rmSync(root, { recursive: true, force: true }));
@@ -122,19 +124,62 @@ describe('the published page and compressed responses', () => {
       const res = await supertest(app).get(path).expect(200);
       expect(res.headers['content-type']).toMatch(/^text\/html/);
       expect(res.headers['cache-control']).toBe('no-cache');
-      expect(res.text).toContain('<body>reader</body>');
+      expect(res.text).toContain('<body>reader<div id="app"></div></body>');
       expect(res.text).toContain('<link rel="preload" href="/api/published/chainring-gain-3f9a" as="fetch" crossorigin="anonymous">');
       // Before the page's own script, so the request starts while the HTML is read.
-      expect(res.text.indexOf('rel="preload"')).toBeLessThan(res.text.indexOf('</head>'));
+      expect(res.text.indexOf('rel="preload"')).toBeLessThan(res.text.indexOf('<script'));
       expect(res.headers['content-security-policy']).toContain("script-src 'self'");
       expect(res.headers['content-security-policy']).not.toContain('unsafe-eval');
     }
     // A slug that cannot be one gets the page (which says so) but no preload.
     const odd = await supertest(app).get('/p/Not%20A%20Slug').expect(200);
-    expect(odd.text).toContain('<body>reader</body>');
+    expect(odd.text).toContain('<body>reader<div id="app"></div></body>');
     expect(odd.text).not.toContain('rel="preload"');
     // Every other address is still the app.
     expect((await supertest(app).get('/notebooks/x').expect(200)).text).toContain('<body>app</body>');
+  });
+
+  it('writes the page\'s style sheets into it, so the first paint waits for no other request', async () => {
+    writeFileSync(join(root, 'dist', 'client', 'assets', 'published-abc.css'), '.published{color:red}');
+    const html = readFileSync(join(root, 'dist', 'client', 'published.html'), 'utf8');
+    writeFileSync(join(root, 'dist', 'client', 'published.html'), html.replace('</head>', '<link rel="stylesheet" crossorigin href="/assets/published-abc.css"><link rel="stylesheet" crossorigin href="/assets/missing-abc.css"></head>'));
+    try {
+      const { app } = t.appWith({ rootDir: root });
+      const res = await supertest(app).get('/p/chainring-gain-3f9a').expect(200);
+      expect(res.text).toContain('<style>.published{color:red}</style>');
+      expect(res.text).not.toContain('href="/assets/published-abc.css"');
+      // A sheet it cannot read stays a link.
+      expect(res.text).toContain('<link rel="stylesheet" crossorigin href="/assets/missing-abc.css">');
+    } finally {
+      writeFileSync(join(root, 'dist', 'client', 'published.html'), html);
+    }
+  });
+
+  it('renders the finding into the page with the server render build, and leaves it to the page otherwise', async () => {
+    const pub = (await editor.post(`/api/notebooks/${notebookId}/publication`).send({}).expect(200)).body as { slug: string };
+    mkdirSync(join(root, 'dist', 'ssr'), { recursive: true });
+    // A stand-in for dist/ssr/published-ssr.js (built by vite.ssr.config.ts; the browser suite uses the real one).
+    writeFileSync(
+      join(root, 'dist', 'ssr', 'published-ssr.js'),
+      'export async function renderPublishedPage(slug, page) { return `<article data-slug="${slug}">${page.snapshot.cells.length} cells, ${page.snapshot.cells.filter((c) => c.result && c.result.svg).length} drawn</article>`; }',
+    );
+    try {
+      const { app } = t.appWith({ rootDir: root });
+      const res = await supertest(app).get(`/p/${pub.slug}`).expect(200);
+      expect(res.text).toContain(`<div id="app" data-rendered="server"><article data-slug="${pub.slug}">5 cells, 1 drawn</article></div>`);
+      // The finding's own title, escaped.
+      expect(res.text).toContain('<title>Mean power, reference vs device · Cogbook</title>');
+      expect(res.text).toContain(`<link rel="preload" href="/api/published/${pub.slug}"`);
+      // Nothing published there: the page as built, which says so itself.
+      const none = await supertest(app).get('/p/no-such-finding').expect(200);
+      expect(none.text).toContain('<div id="app"></div>');
+      expect(none.text).toContain('<title>Published finding</title>');
+      // A chart the server did not draw (published before charts were drawn): the page draws it, so renders it all.
+      await t.database.db.execute(sql`update publication set snapshot = jsonb_set(snapshot, '{cells,4,result}', (snapshot #> '{cells,4,result}') - 'svg')`);
+      expect((await supertest(app).get(`/p/${pub.slug}`).expect(200)).text).toContain('<div id="app"></div>');
+    } finally {
+      rmSync(join(root, 'dist', 'ssr'), { recursive: true, force: true });
+    }
   });
 
   it('falls back to the app page when the client has no reader page', async () => {
@@ -143,7 +188,7 @@ describe('the published page and compressed responses', () => {
       const { app } = t.appWith({ rootDir: root });
       expect((await supertest(app).get('/p/chainring-gain-3f9a').expect(200)).text).toContain('<body>app</body>');
     } finally {
-      writeFileSync(join(root, 'dist', 'client', 'published.html'), '<!doctype html><html><head><title>Published finding</title></head><body>reader</body></html>');
+      writeFileSync(join(root, 'dist', 'client', 'published.html'), READER_HTML);
     }
   });
 

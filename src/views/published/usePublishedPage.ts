@@ -11,15 +11,15 @@ export interface PublishedPageState {
 }
 
 /**
- * Loads a published page's content for reading, again whenever the slug changes. A plain
+ * Loads a published page's content for reading (unless given it), again whenever the slug changes. A plain
  * request (no query cache): the reader's page loads nothing it does not show. The server's
  * page names this request in a preload link, so the browser has usually started it before
  * this code runs, and the answer is taken from there.
  */
-export function usePublishedPage(slug: () => string): PublishedPageState {
-  const data = shallowRef<PublishedNotebookResponse | undefined>();
+export function usePublishedPage(slug: () => string, initial?: PublishedNotebookResponse): PublishedPageState {
+  const data = shallowRef<PublishedNotebookResponse | undefined>(initial);
   const error = shallowRef<unknown>(null);
-  const isPending = shallowRef(true);
+  const isPending = shallowRef(initial === undefined);
   let controller: AbortController | undefined;
 
   async function load(): Promise<void> {
@@ -39,10 +39,11 @@ export function usePublishedPage(slug: () => string): PublishedPageState {
     }
   }
 
+  // Content given (the server's render, or the page taking that render over) is not asked for again.
   watch(slug, () => {
     data.value = undefined;
     void load();
-  }, { immediate: true });
+  }, { immediate: initial === undefined });
   onBeforeUnmount(() => controller?.abort());
   return { data, error, isPending, refetch: load };
 }
