@@ -6,7 +6,7 @@ import { buildNotebookExport, readNotebookExport, type ExportedRecording, type N
 import { sniffRecordingBytes } from '../../shared/recording/sniff.js';
 import type { Db } from '../db/client.js';
 import { findNotebookForUser, insertNotebook } from '../db/repositories/notebooks.js';
-import { findUpload, readUploadBytes, storeUpload, userCanSeeUpload } from '../db/repositories/uploads.js';
+import { findUpload, readUploadBytes, storeUploadsWith, userCanSeeUpload } from '../db/repositories/uploads.js';
 import { findRole } from '../db/repositories/workspaces.js';
 import { AppError } from '../errors.js';
 import { getNotebook } from './notebooks.js';
@@ -60,7 +60,9 @@ export function parseExportText(text: string): unknown {
  * Imports an export file as a new notebook in `workspaceId`. Every check (envelope,
  * version, document, each recording's base64, size, sha256 and content) passes before
  * anything is written; the uploads and the notebook are then written in one
- * transaction, so a failure leaves nothing half-imported.
+ * transaction, so a failure leaves nothing half-imported. With an object store the
+ * recordings' bytes go to it like any upload's, and a failed import removes the
+ * objects it put (unless another upload's row needs them).
  */
 export async function importNotebook(db: Db, userId: string, workspaceId: string, input: unknown): Promise<ImportResponse> {
   assertWorkspace(await findRole(db, workspaceId, userId), 'create');
@@ -84,16 +86,17 @@ export async function importNotebook(db: Db, userId: string, workspaceId: string
     ),
   };
   assertStorableJson(document, 'notebook');
-  const imported: ImportResponse['imported']['recordings'] = [];
-  const notebookId = await db.transaction(async (tx) => {
-    const bound = new Map<string, string>();
-    for (const r of recordings) {
-      const { record, duplicate } = await storeUpload(tx, { ...r, uploadedBy: userId, workspaceId });
-      bound.set(r.slot, record.id);
-      imported.push({ slot: r.slot, uploadId: record.id, fileName: record.fileName, duplicate });
-    }
+  const uploads = recordings.map((r) => ({ sha256: r.sha256, fileName: r.fileName, format: r.format, bytes: r.bytes, warnings: r.warnings, uploadedBy: userId, workspaceId }));
+  // The recordings' uploads and the notebook in one transaction, with a bucket the objects put first
+  // and removed again when it fails (the same rules as any upload).
+  const { notebookId, imported } = await storeUploadsWith(db, uploads, async (tx, stored) => {
+    const bound = new Map(recordings.map((r, i) => [r.slot, stored[i]!.record.id]));
     const doc = { ...document, slots: document.slots.map((s) => (bound.has(s.name) ? { ...s, uploadId: bound.get(s.name)! } : s)) };
-    return insertNotebook(tx, { workspaceId, ownerId: userId, title: doc.title, document: doc, summary: 'Imported from a Cogbook export file' });
+    const id = await insertNotebook(tx, { workspaceId, ownerId: userId, title: doc.title, document: doc, summary: 'Imported from a Cogbook export file' });
+    return {
+      notebookId: id,
+      imported: recordings.map((r, i) => ({ slot: r.slot, uploadId: stored[i]!.record.id, fileName: stored[i]!.record.fileName, duplicate: stored[i]!.duplicate })),
+    };
   });
   return { ...(await getNotebook(db, userId, notebookId)), imported: { recordings: imported } };
 }

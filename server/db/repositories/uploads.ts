@@ -1,6 +1,7 @@
 import { Readable } from 'node:stream';
 import { and, asc, desc, eq, gt, inArray, isNotNull, sql } from 'drizzle-orm';
-import { blobStoreOf, type BlobStore } from '../../storage/blob-store.js';
+import { PgTransaction } from 'drizzle-orm/pg-core';
+import { blobStoreOf, useBlobStore, type BlobStore } from '../../storage/blob-store.js';
 import type { Db } from '../client.js';
 import { notebook, notebookAccess, notebookRevision, upload, uploadLink, user, workspaceMember } from '../schema.js';
 
@@ -79,59 +80,101 @@ type StoreUploadInput = {
   workspaceId: string;
 };
 
+/** One upload as stored: its row, and whether the row was there already (same bytes). */
+export interface StoredUpload {
+  record: UploadRecord;
+  duplicate: boolean;
+}
+
 /**
  * Stores bytes once per sha256 and links them to the workspace, all or nothing: the
  * upload row and its workspace link are written in one transaction. Two concurrent
  * uploads of the same bytes both end with the one row (the unique sha256 decides).
+ * Takes the database handle itself, never a transaction: to store uploads together
+ * with other rows use {@link storeUploadsWith}.
+ */
+export async function storeUpload(db: Db, input: StoreUploadInput): Promise<StoredUpload> {
+  return storeUploadsWith(db, [input], async (_tx, [stored]) => stored!);
+}
+
+/**
+ * Stores several uploads as {@link storeUpload} does, and the rows `alsoWrite` writes
+ * with the transaction it is given, in one transaction: when anything fails nothing is
+ * kept (e.g. an imported notebook and its recordings). `stored` follows `inputs`.
  *
  * With an object store the bytes go there first, so no row ever points at missing
- * bytes; when the transaction then fails, the object it put is removed again unless
- * a row for the same bytes exists by then. Every upload of the same bytes takes the
- * same advisory lock inside its transaction and the removal takes it too, so a
+ * bytes; when the transaction then fails, each object this call put is removed again
+ * unless a row for the same bytes exists by then. Every upload of the same bytes takes
+ * the same advisory lock inside its transaction and the removal takes it too, so a
  * removal cannot pull the object from under another upload's new row: a new row is
- * written only after checking, under the lock, that its object is there.
+ * written only after checking, under the lock, that its object is there. The locks are
+ * taken in sha256 order, so two calls storing the same files cannot deadlock. The
+ * store is bound to the transaction as well, so `alsoWrite` reads uploads as `db` does.
  */
-export async function storeUpload(db: Db, input: StoreUploadInput): Promise<{ record: UploadRecord; duplicate: boolean }> {
-  const store = blobStoreOf(db);
-  let putHere = false;
-  if (store && !(await findUploadBySha(db, input.sha256))) {
-    await store.put(input.sha256, input.bytes);
-    putHere = true;
+export async function storeUploadsWith<T>(
+  db: Db,
+  inputs: readonly StoreUploadInput[],
+  alsoWrite: (tx: Db, stored: StoredUpload[]) => Promise<T>,
+): Promise<T> {
+  if (db instanceof PgTransaction) {
+    // The object store is bound to the database handle, not to transactions opened on it:
+    // from here the bytes would silently land in the database instead of the bucket.
+    throw new Error('uploads are stored with the database handle, not inside a transaction: write the other rows through storeUploadsWith');
   }
+  const store = blobStoreOf(db);
+  const shas = [...new Set(inputs.map((i) => i.sha256))].sort();
+  const put: string[] = [];
   try {
-    return await db.transaction(async (tx) => {
-      if (store) await lockBytes(tx, input.sha256);
-      const inserted = await tx
-        .insert(upload)
-        .values({
-          sha256: input.sha256,
-          fileName: input.fileName,
-          size: input.bytes.byteLength,
-          format: input.format,
-          bytes: store ? null : input.bytes,
-          warnings: input.warnings,
-          uploadedBy: input.uploadedBy,
-          workspaceId: input.workspaceId,
-        })
-        .onConflictDoNothing({ target: upload.sha256 })
-        .returning(metaColumns);
-      // A new row needs its object: another upload of the same bytes whose transaction failed
-      // may have removed it between our put and our lock (a rare race; put it again).
-      if (store && inserted.length > 0 && (await store.stat(input.sha256))?.size !== input.bytes.byteLength) {
-        await store.put(input.sha256, input.bytes);
+    if (store) {
+      for (const sha256 of shas) {
+        if (await findUploadBySha(db, sha256)) continue;
+        await store.put(sha256, inputs.find((i) => i.sha256 === sha256)!.bytes);
+        put.push(sha256);
       }
-      const record = inserted[0] ?? (await findUploadBySha(tx, input.sha256));
-      if (!record) throw new Error(`upload ${input.sha256} vanished right after it was stored`);
-      await tx
-        .insert(uploadLink)
-        .values({ uploadId: record.id, workspaceId: input.workspaceId, uploadedBy: input.uploadedBy })
-        .onConflictDoNothing();
-      return { record, duplicate: inserted.length === 0 };
+    }
+    return await db.transaction(async (tx) => {
+      if (store) {
+        useBlobStore(tx, store);
+        for (const sha256 of shas) await lockBytes(tx, sha256);
+      }
+      const stored: StoredUpload[] = [];
+      for (const input of inputs) stored.push(await writeUploadRow(tx, store, input));
+      return alsoWrite(tx, stored);
     });
   } catch (error) {
-    if (store && putHere) await removeUnusedObject(db, store, input.sha256, error);
+    if (store) for (const sha256 of put) await removeUnusedObject(db, store, sha256, error);
     throw error;
   }
+}
+
+/** The upload row (unless one holds these bytes already) and its workspace link; with a store, under the bytes' lock. */
+async function writeUploadRow(tx: Db, store: BlobStore | undefined, input: StoreUploadInput): Promise<StoredUpload> {
+  const inserted = await tx
+    .insert(upload)
+    .values({
+      sha256: input.sha256,
+      fileName: input.fileName,
+      size: input.bytes.byteLength,
+      format: input.format,
+      bytes: store ? null : input.bytes,
+      warnings: input.warnings,
+      uploadedBy: input.uploadedBy,
+      workspaceId: input.workspaceId,
+    })
+    .onConflictDoNothing({ target: upload.sha256 })
+    .returning(metaColumns);
+  // A new row needs its object: another upload of the same bytes whose transaction failed
+  // may have removed it between our put and our lock (a rare race; put it again).
+  if (store && inserted.length > 0 && (await store.stat(input.sha256))?.size !== input.bytes.byteLength) {
+    await store.put(input.sha256, input.bytes);
+  }
+  const record = inserted[0] ?? (await findUploadBySha(tx, input.sha256));
+  if (!record) throw new Error(`upload ${input.sha256} vanished right after it was stored`);
+  await tx
+    .insert(uploadLink)
+    .values({ uploadId: record.id, workspaceId: input.workspaceId, uploadedBy: input.uploadedBy })
+    .onConflictDoNothing();
+  return { record, duplicate: inserted.length === 0 };
 }
 
 /** Serialises writers of one sha256 (uploads, orphan removal) until the transaction ends. */
