@@ -174,7 +174,8 @@ async function buildAndCheck(page: Page): Promise<void> {
     expect(leftBig).toBeLessThan(10);
     expect(Math.abs(rightBig)).toBeLessThan(2);
     // Notebook charts are drawn on canvases (see ChartView's renderer), each labelled for screen readers.
-    expect(await page.locator('.chart-view__canvas[role=img] canvas').count()).toBeGreaterThanOrEqual(4);
+    const canvases = page.locator('.chart-view__canvas[role=graphics-document][aria-label] canvas');
+    expect(await canvases.count()).toBeGreaterThanOrEqual(4);
     await shots(page, 'built');
 
     const before = await cellSnapshot(page);
