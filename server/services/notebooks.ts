@@ -73,12 +73,12 @@ export async function getNotebook(db: Db, userId: string, notebookId: string): P
 
 /** Saves a new revision; a stale base answers 409 and writes nothing. */
 export async function saveNotebook(db: Db, userId: string, notebookId: string, body: SaveNotebookBody): Promise<NotebookResponse> {
-  await reach(db, userId, notebookId, 'edit');
+  const nb = await reach(db, userId, notebookId, 'edit');
   assertStorableJson(body.document, 'document');
   assertStorableJson(body.summary ?? '', 'summary');
   await assertUploadsVisible(db, userId, body.document);
-  const revision = await append(db, userId, notebookId, body.baseRevision, body.document, body.summary ?? '');
-  return notebookAt(db, userId, notebookId, revision);
+  const written = await append(db, userId, notebookId, body.baseRevision, body.document, body.summary ?? '');
+  return savedAnswer(nb, written, body.document);
 }
 
 export async function deleteNotebook(db: Db, userId: string, notebookId: string): Promise<void> {
@@ -104,8 +104,9 @@ export async function restoreRevision(db: Db, userId: string, notebookId: string
   assertStorableJson(summary ?? '', 'summary');
   const rev = await repo.findRevisionDocument(db, notebookId, revision);
   if (!rev) throw notFound(`Revision ${revision}`);
-  const written = await append(db, userId, notebookId, nb.currentRevision, readDocument(rev.document), summary ?? `Restored revision ${revision}`);
-  return notebookAt(db, userId, notebookId, written);
+  const document = readDocument(rev.document);
+  const written = await append(db, userId, notebookId, nb.currentRevision, document, summary ?? `Restored revision ${revision}`);
+  return savedAnswer(nb, written, document);
 }
 
 export async function getAccess(db: Db, userId: string, notebookId: string): Promise<NotebookAccessResponse> {
@@ -144,8 +145,15 @@ async function reach(db: Db, userId: string, notebookId: string, action: Noteboo
   return nb!;
 }
 
-/** Appends a revision on `base` and answers its number; 409 when `base` is no longer the current one. */
-async function append(db: Db, userId: string, notebookId: string, base: number, document: NotebookDocument, summary: string): Promise<number> {
+/** Appends a revision on `base` and answers its number and time; 409 when `base` is no longer the current one. */
+async function append(
+  db: Db,
+  userId: string,
+  notebookId: string,
+  base: number,
+  document: NotebookDocument,
+  summary: string,
+): Promise<{ revision: number; updatedAt: Date }> {
   const result = await repo.appendRevision(db, { notebookId, baseRevision: base, title: document.title, document, authorId: userId, summary });
   if (!result.saved) {
     throw new AppError(
@@ -155,20 +163,19 @@ async function append(db: Db, userId: string, notebookId: string, base: number, 
       { currentRevision: result.currentRevision, baseRevision: base },
     );
   }
-  return result.revision;
+  return { revision: result.revision, updatedAt: result.updatedAt };
 }
 
 /**
- * The answer to a save: the notebook as of the revision that save wrote. Reading the head
+ * The answer to a save: the notebook as of the revision that save wrote, built from what
+ * was written (the document is the one just stored, already in the current format) and
+ * the access checked before writing, without reading anything back. Reading the head
  * instead would hand over a collaborator's revision saved in the meantime, and the editor
  * would build its next save on it and overwrite that revision without a 409.
  */
-async function notebookAt(db: Db, userId: string, notebookId: string, revision: number): Promise<NotebookResponse> {
-  const nb = await reach(db, userId, notebookId, 'read');
-  const rev = await repo.findRevisionDocument(db, notebookId, revision);
-  if (!rev) throw new Error(`notebook ${notebookId} has no row for its revision ${revision}`);
-  const document = readDocument(rev.document);
-  return { notebook: { ...toMeta(nb), title: document.title, revision }, revision, document };
+function savedAnswer(nb: repo.NotebookAccessRecord, written: { revision: number; updatedAt: Date }, document: NotebookDocument): NotebookResponse {
+  const meta = toMeta({ ...nb, title: document.title, currentRevision: written.revision, updatedAt: written.updatedAt });
+  return { notebook: meta, revision: written.revision, document };
 }
 
 /** Stored documents may be of an older format version: bring them to the current one. */

@@ -27,13 +27,13 @@ beforeAll(async () => {
 }, 180_000);
 afterAll(async () => t.close());
 
-/** The database, with `between` run once right after the next transaction commits. */
+/** The database, with `between` run once right after the next write commits (a save is one statement, a restore too). */
 function withSaveInBetween(db: Db, between: () => Promise<void>): Db {
   let pending: (() => Promise<void>) | undefined = between;
   return new Proxy(db, {
     get(target, key, receiver) {
       const value = Reflect.get(target, key, receiver) as unknown;
-      if (key !== 'transaction' || typeof value !== 'function') return typeof value === 'function' ? value.bind(target) : value;
+      if ((key !== 'transaction' && key !== 'execute') || typeof value !== 'function') return typeof value === 'function' ? value.bind(target) : value;
       return async (...args: unknown[]) => {
         const result = await (value as (...a: unknown[]) => Promise<unknown>).apply(target, args);
         const run = pending;

@@ -115,34 +115,33 @@ export async function insertNotebook(
 }
 
 /**
- * Appends revision `baseRevision + 1` if the notebook is still at `baseRevision`.
- * The conditional update takes the row lock, so of two concurrent saves on one base
- * exactly one wins; the other gets `{ saved: false }` with the current number.
+ * Appends revision `baseRevision + 1` if the notebook is still at `baseRevision`, in one
+ * statement (one round trip, atomic by itself): the conditional update takes the row
+ * lock, so of two concurrent saves on one base exactly one wins and inserts its revision;
+ * the other gets `{ saved: false }` with the current number. Answers the time the
+ * notebook was updated at.
  */
 export async function appendRevision(
   db: Db,
   input: { notebookId: string; baseRevision: number; title: string; document: unknown; authorId: string; summary: string },
-): Promise<{ saved: true; revision: number } | { saved: false; currentRevision: number }> {
-  return db.transaction(async (tx) => {
-    const next = input.baseRevision + 1;
-    const updated = await tx
-      .update(notebook)
-      .set({ currentRevision: next, title: input.title, updatedAt: new Date() })
-      .where(and(eq(notebook.id, input.notebookId), eq(notebook.currentRevision, input.baseRevision)))
-      .returning({ id: notebook.id });
-    if (updated.length === 0) {
-      const rows = await tx.select({ current: notebook.currentRevision }).from(notebook).where(eq(notebook.id, input.notebookId));
-      return { saved: false as const, currentRevision: rows[0]?.current ?? 0 };
-    }
-    await tx.insert(notebookRevision).values({
-      notebookId: input.notebookId,
-      revision: next,
-      document: input.document,
-      authorId: input.authorId,
-      summary: input.summary,
-    });
-    return { saved: true as const, revision: next };
-  });
+): Promise<{ saved: true; revision: number; updatedAt: Date } | { saved: false; currentRevision: number }> {
+  const next = input.baseRevision + 1;
+  const updatedAt = new Date();
+  // Both drivers answer a raw statement with { rows }.
+  const result = (await db.execute(sql`
+    with moved as (
+      update ${notebook} set current_revision = ${next}, title = ${input.title}, updated_at = ${updatedAt.toISOString()}::timestamptz
+      where id = ${input.notebookId} and current_revision = ${input.baseRevision}
+      returning id
+    ), added as (
+      insert into ${notebookRevision} (notebook_id, revision, document, author_id, summary)
+      select id, ${next}, ${JSON.stringify(input.document)}::jsonb, ${input.authorId}, ${input.summary} from moved
+      returning revision
+    )
+    select revision from added`)) as { rows: unknown[] };
+  if (result.rows.length === 1) return { saved: true, revision: next, updatedAt };
+  const rows = await db.select({ current: notebook.currentRevision }).from(notebook).where(eq(notebook.id, input.notebookId));
+  return { saved: false, currentRevision: rows[0]?.current ?? 0 };
 }
 
 export async function findRevisionDocument(db: Db, notebookId: string, revision: number): Promise<(RevisionRecord & { document: unknown }) | undefined> {
