@@ -3,6 +3,7 @@ import { idParamsSchema } from '../../shared/api/common.js';
 import { publicationSlugParamsSchema, publishBodySchema, publishedFileParamsSchema } from '../../shared/api/publications.js';
 import type { AppContext } from '../context.js';
 import { requireSession, userIdOf } from '../middleware/session.js';
+import { bodyFor, PublishedPageCache } from '../services/published-pages.js';
 import * as publications from '../services/publications.js';
 
 /** Publishing (editors) and the public reader's routes under /api/published. */
@@ -11,9 +12,12 @@ export function publicationRoutes(ctx: AppContext): Router {
   const db = ctx.database.db;
   const signedIn = requireSession(ctx.auth);
   const baseUrl = ctx.config.baseUrl;
+  const pages = new PublishedPageCache();
   router.post('/notebooks/:id/publication', signedIn, async (req, res) => {
     const { id } = idParamsSchema.parse(req.params);
-    res.json(await publications.publish(db, userIdOf(res), id, publishBodySchema.parse(req.body ?? {}), baseUrl));
+    const published = await publications.publish(db, userIdOf(res), id, publishBodySchema.parse(req.body ?? {}), baseUrl);
+    pages.forget(published.slug);
+    res.json(published);
   });
   router.get('/notebooks/:id/publication', signedIn, async (req, res) => {
     const { id } = idParamsSchema.parse(req.params);
@@ -21,7 +25,7 @@ export function publicationRoutes(ctx: AppContext): Router {
   });
   router.delete('/notebooks/:id/publication', signedIn, async (req, res) => {
     const { id } = idParamsSchema.parse(req.params);
-    await publications.unpublish(db, userIdOf(res), id);
+    pages.forget(await publications.unpublish(db, userIdOf(res), id));
     res.status(204).end();
   });
   router.get('/published', async (_req, res) => {
@@ -29,7 +33,19 @@ export function publicationRoutes(ctx: AppContext): Router {
   });
   router.get('/published/:slug', async (req, res) => {
     const { slug } = publicationSlugParamsSchema.parse(req.params);
-    res.json(await publications.readPublished(db, slug));
+    const page = await pages.read(db, slug);
+    // Anyone may keep a copy, but must ask again before each use: an unpublished page is
+    // gone at once, and an unchanged one costs a 304 without the snapshot.
+    res.setHeader('Cache-Control', 'public, no-cache');
+    res.setHeader('ETag', page.etag);
+    res.vary('Accept-Encoding');
+    if (req.fresh) {
+      res.status(304).end();
+      return;
+    }
+    const { body, encoding } = bodyFor(page, (coding) => req.acceptsEncodings(coding) === coding);
+    if (encoding) res.setHeader('Content-Encoding', encoding);
+    res.type('json').send(body);
   });
   router.get('/published/:slug/files/:uploadId', async (req, res) => {
     const { slug, uploadId } = publishedFileParamsSchema.parse(req.params);

@@ -46,28 +46,12 @@ export async function getPublication(db: Db, userId: string, notebookId: string,
   return found ? toPublication(found, baseUrl) : null;
 }
 
-export async function unpublish(db: Db, userId: string, notebookId: string): Promise<void> {
+/** Unpublishes the notebook; answers the slug it was published at. */
+export async function unpublish(db: Db, userId: string, notebookId: string): Promise<string> {
   assertNotebook(await findNotebookForUser(db, notebookId, userId), 'edit');
-  if (!(await repo.deletePublication(db, notebookId))) throw notFound('Publication');
-}
-
-/** What a signed-out reader gets: no upload ids or bytes unless downloads are allowed. */
-export async function readPublished(db: Db, slug: string): Promise<PublishedNotebookResponse> {
-  const found = await repo.findPublicationBySlug(db, slug);
-  if (!found) throw notFound('Publication');
-  const snapshot = found.snapshot as Snapshot;
-  const document = await revisionDocument(db, found.notebookId, found.revision);
-  return {
-    slug: found.slug,
-    title: found.title,
-    description: document.description,
-    publishedBy: found.publishedByName === null ? null : { name: found.publishedByName },
-    publishedAt: found.publishedAt.toISOString(),
-    revision: found.revision,
-    snapshot,
-    allowDownloads: found.allowDownloads,
-    files: found.allowDownloads ? await publishedFiles(db, snapshot) : null,
-  };
+  const slug = await repo.deletePublication(db, notebookId);
+  if (slug === null) throw notFound('Publication');
+  return slug;
 }
 
 export async function listPublished(db: Db): Promise<PublishedListResponse> {
@@ -94,8 +78,11 @@ export async function readPublishedFile(db: Db, slug: string, uploadId: string):
   return { fileName: file!.fileName, bytes };
 }
 
-/** The snapshot names its inputs by content hash; the stored upload with those bytes is the file. */
-async function publishedFiles(db: Db, snapshot: Snapshot): Promise<NonNullable<PublishedNotebookResponse['files']>> {
+/**
+ * The snapshot names its inputs by content hash; the stored upload with those bytes is the file.
+ * No route removes uploads, so the list holds for the life of a publication.
+ */
+export async function publishedFiles(db: Db, snapshot: Snapshot): Promise<NonNullable<PublishedNotebookResponse['files']>> {
   const files: NonNullable<PublishedNotebookResponse['files']> = [];
   for (const input of snapshot.inputs) {
     const upload = await findUploadBySha(db, input.sha256);

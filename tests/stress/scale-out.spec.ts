@@ -115,6 +115,52 @@ describe.skipIf(!adminUrl)(`two processes on one PostgreSQL${adminUrl ? '' : ` (
     expect((await call(proxy.url, 'GET', '/api/me', { cookie })).status).toBe(401);
     expect((await call(proxy.url, 'GET', '/api/me', { cookie })).status).toBe(401);
   });
+
+  it('a published page kept in memory by both processes follows a republish and an unpublish made on one of them', { timeout: 300_000 }, async () => {
+    const [a, b] = servers as [RunningServer, RunningServer];
+    // Straight to each process (no proxy in between); Origin stays the one address they serve under.
+    const json = { 'content-type': 'application/json', origin: proxy.url };
+    const signUp = await call(a.url, 'POST', '/api/auth/sign-up/email', json, JSON.stringify({ email: 'publisher@lab.test', password: SIGN_UP_PASSWORD, name: 'Publisher' }));
+    expect(signUp.status, signUp.text).toBe(200);
+    const cookie = ([] as string[]).concat(signUp.headers['set-cookie'] ?? []).map((c) => c.split(';')[0]).join('; ');
+    const onA = { ...json, cookie };
+    const workspaceId = (JSON.parse((await call(a.url, 'GET', '/api/me', onA)).text) as { workspaces: { id: string }[] }).workspaces[0]!.id;
+    const doc = { ...emptyNotebook('Published from A'), description: 'First findings.' };
+    const created = await call(a.url, 'POST', '/api/notebooks', onA, JSON.stringify({ workspaceId, document: doc }));
+    expect(created.status, created.text).toBe(201);
+    const id = (JSON.parse(created.text) as { notebook: { id: string } }).notebook.id;
+    const published = await call(a.url, 'POST', `/api/notebooks/${id}/publication`, onA, '{}');
+    expect(published.status, published.text).toBe(200);
+    const slug = (JSON.parse(published.text) as { slug: string }).slug;
+    const page = `/api/published/${slug}`;
+    const read = async (s: RunningServer, etag?: string) => {
+      const res = await call(s.url, 'GET', page, etag ? { 'if-none-match': etag } : {});
+      return { ...res, page: res.status === 200 ? (JSON.parse(res.text) as { revision: number; description: string }) : null };
+    };
+
+    // Both processes read it twice (the second answer comes from what each keeps).
+    const first = await read(b);
+    expect(first.status).toBe(200);
+    expect(first.page!.description).toBe('First findings.');
+    expect((await read(b)).headers.etag).toBe(first.headers.etag);
+    expect((await read(a)).headers.etag).toBe(first.headers.etag);
+    expect((await read(b, String(first.headers.etag))).status).toBe(304);
+
+    // A saves and republishes; B, which was not told, answers the new revision at once.
+    const saved = await call(a.url, 'PUT', `/api/notebooks/${id}`, onA, JSON.stringify({ baseRevision: 1, document: { ...doc, description: 'Second findings.' } }));
+    expect(saved.status, saved.text).toBe(200);
+    expect((await call(a.url, 'POST', `/api/notebooks/${id}/publication`, onA, '{}')).status).toBe(200);
+    const second = await read(b, String(first.headers.etag));
+    expect(second.status).toBe(200);
+    expect(second.page).toMatchObject({ revision: 2, description: 'Second findings.' });
+    expect(second.headers.etag).not.toBe(first.headers.etag);
+
+    // A unpublishes; B answers 404 at once, with or without the tag it handed out.
+    const gone = await call(a.url, 'DELETE', `/api/notebooks/${id}/publication`, onA);
+    expect(gone.status, gone.text).toBe(204);
+    expect((await read(b)).status).toBe(404);
+    expect((await read(b, String(second.headers.etag))).status).toBe(404);
+  });
 });
 
 /** A TCP proxy on `port` giving each new connection to the next backend port in turn. */

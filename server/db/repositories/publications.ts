@@ -36,6 +36,11 @@ export async function findPublicationOfNotebook(db: Db, notebookId: string): Pro
   return (await select(db).where(eq(publication.notebookId, notebookId)))[0];
 }
 
+/** The publication at `slug` without its snapshot: the cheap check a cached page is still current. */
+export async function findPublicationMetaBySlug(db: Db, slug: string): Promise<PublicationRecord | undefined> {
+  return (await select(db).where(eq(publication.slug, slug)))[0];
+}
+
 export async function findPublicationBySlug(db: Db, slug: string): Promise<(PublicationRecord & { snapshot: unknown }) | undefined> {
   const rows = await db
     .select({ ...columns, snapshot: publication.snapshot })
@@ -69,7 +74,8 @@ export async function upsertPublication(
     });
 }
 
-export async function deletePublication(db: Db, notebookId: string): Promise<boolean> {
+/** Unpublishes a notebook; answers the slug it had, or null when it was not published. */
+export async function deletePublication(db: Db, notebookId: string): Promise<string | null> {
   const rows = await db.delete(publication).where(eq(publication.notebookId, notebookId)).returning({ slug: publication.slug });
-  return rows.length > 0;
+  return rows[0]?.slug ?? null;
 }
