@@ -17,7 +17,7 @@ import { healthRoutes } from './routes/health.js';
 import { invitationRoutes } from './routes/invitations.js';
 import { notebookRoutes } from './routes/notebooks.js';
 import { outboxRoutes } from './routes/outbox.js';
-import { publishedPageRoutes, readPublishedForPage, type PublishedPageOptions } from './routes/publications-page.js';
+import { currentPublication, publishedPageRoutes, readPublishedForPage, type PublishedPageOptions } from './routes/publications-page.js';
 import { publicationRoutes } from './routes/publications.js';
 import { runRoutes } from './routes/runs.js';
 import { sampleRoutes } from './routes/samples.js';
@@ -87,7 +87,8 @@ export function createApp(deps: AppDeps): AppHandle {
   app.use('/api/outbox', signedIn, outboxRoutes(ctx));
   app.use('/api', notFoundHandler);
 
-  mountClient(app, deps.config.rootDir, (slug) => readPublishedForPage(deps.database.db, slug));
+  const db = deps.database.db;
+  mountClient(app, deps.config.rootDir, { read: (slug) => readPublishedForPage(db, slug), current: (notebookId) => currentPublication(db, notebookId) });
   app.use(errorHandler(deps.logger, deps.config.uploadLimitMb));
   return { app, auth };
 }
@@ -122,7 +123,7 @@ function mountAuth(app: Express, ctx: AppContext): void {
 }
 
 /** The built SPA: hashed assets, then index.html for any other GET. */
-function mountClient(app: Express, rootDir: string, readPublished: PublishedPageOptions['read']): void {
+function mountClient(app: Express, rootDir: string, published: PublishedPageOptions): void {
   const clientDir = join(rootDir, 'dist', 'client');
   app.use(
     '/assets',
@@ -137,7 +138,7 @@ function mountClient(app: Express, rootDir: string, readPublished: PublishedPage
   );
   app.use('/assets', notFoundHandler);
   app.use(express.static(clientDir, { index: false }));
-  app.use(publishedPageRoutes(clientDir, { read: readPublished }));
+  app.use(publishedPageRoutes(clientDir, published));
   app.get('/{*splat}', (_req, res, next) => {
     const index = join(clientDir, 'index.html');
     if (!existsSync(index)) return next();

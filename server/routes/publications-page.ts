@@ -6,7 +6,7 @@ import type { PublishedNotebookResponse } from '../../shared/api/publications.js
 import { publicationSlugParamsSchema } from '../../shared/api/publications.js';
 import type { Snapshot } from '../../shared/api/snapshots.js';
 import type { Db } from '../db/client.js';
-import { findPublicationBySlug } from '../db/repositories/publications.js';
+import { findPublicationBySlug, findPublicationOfNotebook, type PublicationRecord } from '../db/repositories/publications.js';
 import { findUploadBySha } from '../db/repositories/uploads.js';
 import { revisionDocument } from '../services/snapshot.js';
 
@@ -15,14 +15,24 @@ interface PublishedRenderer {
   renderPublishedPage(slug: string, page: PublishedNotebookResponse): Promise<string>;
 }
 
+/** A publication's content for the page, with what identifies this publication of it. */
+export interface PublishedPageSource {
+  page: PublishedNotebookResponse;
+  notebookId: string;
+  /** Changes whenever the page would (republished, renamed, downloads allowed or not). */
+  stamp: string;
+}
+
 export interface PublishedPageOptions {
   /** The published page's content, as `GET /api/published/:slug` answers it; undefined when nothing is published there. */
-  read: (slug: string) => Promise<PublishedNotebookResponse | undefined>;
+  read: (slug: string) => Promise<PublishedPageSource | undefined>;
+  /** The slug and stamp of a notebook's publication from its small row (no snapshot): the cheap check that a kept render is current. */
+  current: (notebookId: string) => Promise<{ slug: string; stamp: string } | undefined>;
   /** Folder of the server render's build (default `<clientDir>/../ssr`). */
   ssrDir?: string;
 }
 
-/** Rendered pages kept, by slug and publication (a page of a large finding is about 1 MB of HTML). */
+/** Rendered pages kept, by slug (a page of a large finding is about 1 MB of HTML). */
 const KEPT_PAGES = 16;
 
 /**
@@ -43,7 +53,7 @@ export function publishedPageRoutes(clientDir: string, options: PublishedPageOpt
   const template = watchedFile(join(clientDir, 'published.html'), (text) => inlineStyles(text, clientDir));
   const ssrFile = join(options.ssrDir ?? join(clientDir, '..', 'ssr'), 'published-ssr.js');
   // A new build brings a new render and forgets the pages the old one made.
-  const kept = new Map<string, string>();
+  const kept = new Map<string, { notebookId: string; stamp: string; html: string; title: string }>();
   const renderer = watchedFile(ssrFile, (_text, mtimeMs) => {
     kept.clear();
     return import(`${pathToFileURL(ssrFile).href}?v=${mtimeMs}`) as Promise<PublishedRenderer>;
@@ -52,21 +62,26 @@ export function publishedPageRoutes(clientDir: string, options: PublishedPageOpt
   async function article(slug: string): Promise<{ html: string; title: string } | undefined> {
     const render = renderer();
     if (!render) return undefined;
-    // Not published (or not readable now): the page's script says so.
-    const page = await options.read(slug).catch(() => undefined);
-    if (!page || page.snapshot.cells.some((c) => c.result?.type === 'chart' && !c.result.svg)) return undefined;
-    const key = JSON.stringify([slug, page.publishedAt, page.revision, page.title, page.description, page.publishedBy, page.allowDownloads, page.files]);
-    let html = kept.get(key);
-    if (html === undefined) {
-      try {
-        html = await (await render).renderPublishedPage(slug, page);
-      } catch {
-        return undefined; // a render that fails leaves the page to its script
-      }
-      kept.set(key, html);
-      while (kept.size > KEPT_PAGES) kept.delete(kept.keys().next().value!);
+    const known = kept.get(slug);
+    if (known) {
+      // Still the same publication (unpublishing or republishing shows at once): reuse its render.
+      const now = await options.current(known.notebookId).catch(() => undefined);
+      if (now?.slug === slug && now.stamp === known.stamp) return known;
+      kept.delete(slug);
     }
-    return { html, title: page.title };
+    // Not published (or not readable now): the page's script says so.
+    const found = await options.read(slug).catch(() => undefined);
+    if (!found || found.page.snapshot.cells.some((c) => c.result?.type === 'chart' && !c.result.svg)) return undefined;
+    let html: string;
+    try {
+      html = await (await render).renderPublishedPage(slug, found.page);
+    } catch {
+      return undefined; // a render that fails leaves the page to its script
+    }
+    const entry = { notebookId: found.notebookId, stamp: found.stamp, html, title: found.page.title };
+    kept.set(slug, entry);
+    while (kept.size > KEPT_PAGES) kept.delete(kept.keys().next().value!);
+    return entry;
   }
 
   router.get(['/p/:slug', '/published/:slug'], async (req, res, next) => {
@@ -81,7 +96,7 @@ export function publishedPageRoutes(clientDir: string, options: PublishedPageOpt
       const rendered = await article(slug);
       if (rendered) {
         html = html
-          .replace(/<title>[^<]*<\/title>/, `<title>${escapeHtml(rendered.title)} · Cogbook</title>`)
+          .replace(/<title>[^<]*<\/title>/, () => `<title>${escapeHtml(rendered.title)} · Cogbook</title>`)
           .replace('<div id="app"></div>', () => `<div id="app" data-rendered="server">${rendered.html}</div>`);
       }
     }
@@ -122,12 +137,17 @@ function watchedFile<T>(file: string, make: (text: string, mtimeMs: number) => T
   };
 }
 
+/** What identifies one publication of a notebook as readers see it. */
+function stampOf(row: PublicationRecord): string {
+  return JSON.stringify([row.revision, row.publishedAt.toISOString(), row.title, row.publishedByName, row.allowDownloads]);
+}
+
 /**
  * A published page's content for the server's render: what `GET /api/published/:slug` answers
  * (the page's script takes the render over with that answer, so the two must agree), or
  * undefined when nothing is published at `slug`.
  */
-export async function readPublishedForPage(db: Db, slug: string): Promise<PublishedNotebookResponse | undefined> {
+export async function readPublishedForPage(db: Db, slug: string): Promise<PublishedPageSource | undefined> {
   const found = await findPublicationBySlug(db, slug);
   if (!found) return undefined;
   const snapshot = found.snapshot as Snapshot;
@@ -140,7 +160,7 @@ export async function readPublishedForPage(db: Db, slug: string): Promise<Publis
       if (upload) files.push({ uploadId: upload.id, slot: input.slot, fileName: input.fileName, format: input.format, size: input.size });
     }
   }
-  return {
+  const page: PublishedNotebookResponse = {
     slug: found.slug,
     title: found.title,
     description: document.description,
@@ -151,6 +171,13 @@ export async function readPublishedForPage(db: Db, slug: string): Promise<Publis
     allowDownloads: found.allowDownloads,
     files,
   };
+  return { page, notebookId: found.notebookId, stamp: stampOf(found) };
+}
+
+/** The slug and stamp of a notebook's publication, without its snapshot. */
+export async function currentPublication(db: Db, notebookId: string): Promise<{ slug: string; stamp: string } | undefined> {
+  const row = await findPublicationOfNotebook(db, notebookId);
+  return row ? { slug: row.slug, stamp: stampOf(row) } : undefined;
 }
 
 const ESCAPES: Record<string, string> = { '&': '&amp;', '<': '&lt;', '>': '&gt;', '"': '&quot;', "'": '&#39;' };

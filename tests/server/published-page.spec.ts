@@ -169,14 +169,22 @@ describe('the published page and compressed responses', () => {
       expect(res.text).toContain(`<div id="app" data-rendered="server"><article data-slug="${pub.slug}">5 cells, 1 drawn</article></div>`);
       // The finding's own title, escaped.
       expect(res.text).toContain('<title>Mean power, reference vs device · Cogbook</title>');
+      await t.database.db.execute(sql`update notebook set title = ${'<b>$& $1 gain</b>'} where id = ${notebookId}`);
+      expect((await supertest(app).get(`/p/${pub.slug}`).expect(200)).text).toContain('<title>&lt;b&gt;$&amp; $1 gain&lt;/b&gt; · Cogbook</title>');
       expect(res.text).toContain(`<link rel="preload" href="/api/published/${pub.slug}"`);
       // Nothing published there: the page as built, which says so itself.
       const none = await supertest(app).get('/p/no-such-finding').expect(200);
       expect(none.text).toContain('<div id="app"></div>');
       expect(none.text).toContain('<title>Published finding</title>');
-      // A chart the server did not draw (published before charts were drawn): the page draws it, so renders it all.
-      await t.database.db.execute(sql`update publication set snapshot = jsonb_set(snapshot, '{cells,4,result}', (snapshot #> '{cells,4,result}') - 'svg')`);
+      // A page kept from an earlier read goes as soon as the finding is unpublished, and comes back when it is published again.
+      await editor.delete(`/api/notebooks/${notebookId}/publication`).expect(204);
       expect((await supertest(app).get(`/p/${pub.slug}`).expect(200)).text).toContain('<div id="app"></div>');
+      const again = (await editor.post(`/api/notebooks/${notebookId}/publication`).send({}).expect(200)).body as { slug: string };
+      expect((await supertest(app).get(`/p/${again.slug}`).expect(200)).text).toContain('data-rendered="server"');
+      expect((await supertest(app).get(`/p/${pub.slug}`).expect(200)).text).toContain('<div id="app"></div>');
+      // A chart the server did not draw (published before charts were drawn): the page draws it, so renders it all.
+      await t.database.db.execute(sql`update publication set snapshot = jsonb_set(snapshot, '{cells,4,result}', (snapshot #> '{cells,4,result}') - 'svg'), published_at = now()`);
+      expect((await supertest(app).get(`/p/${again.slug}`).expect(200)).text).toContain('<div id="app"></div>');
     } finally {
       rmSync(join(root, 'dist', 'ssr'), { recursive: true, force: true });
     }
