@@ -61,13 +61,36 @@ export async function chartSvg(spec: Record<string, unknown>, width = PUBLISHED_
     // What vega-lite does for a container width: the whole drawing, axes included, fits it.
     sized['autosize'] ??= { type: 'fit-x', contains: 'padding' };
   }
-  const compiled = compile(sized as unknown as Parameters<typeof compile>[0], { config: CHART_CONFIG }).spec;
+  // A label for each of thousands of points helps no one and is most of the drawing's size: a
+  // chart of many rows describes its axes, title and legend only (a few bars keep theirs).
+  const config = largestDataset(spec) > MANY_ROWS ? { ...CHART_CONFIG, mark: { aria: false } } : CHART_CONFIG;
+  const compiled = compile(sized as unknown as Parameters<typeof compile>[0], { config }).spec;
   const view = new vega.View(vega.parse(compiled, undefined, { ast: true }), { renderer: 'none', expr, logLevel: vega.None });
   try {
     return await view.toSVG();
   } finally {
     view.finalize();
   }
+}
+
+/** Rows of inline data past which a drawing leaves out the label of each mark. */
+const MANY_ROWS = 300;
+
+/** Rows of the largest inline dataset of a vega-lite spec (`data.values` at any depth, `datasets`). */
+function largestDataset(spec: unknown): number {
+  let most = 0;
+  const walk = (node: unknown, depth: number): void => {
+    if (depth > 32 || typeof node !== 'object' || node === null) return;
+    if (Array.isArray(node)) return node.forEach((x) => walk(x, depth + 1));
+    for (const [k, v] of Object.entries(node)) {
+      if (k === 'datasets' && typeof v === 'object' && v !== null) {
+        for (const rows of Object.values(v)) if (Array.isArray(rows)) most = Math.max(most, rows.length);
+      } else if (k === 'values' && Array.isArray(v)) most = Math.max(most, v.length);
+      else walk(v, depth + 1);
+    }
+  };
+  walk(spec, 0);
+  return most;
 }
 
 /** Tags vega's SVG renderer writes for marks, axes, legends and titles. */

@@ -8,7 +8,7 @@ import type { Express } from 'express';
 import supertest from 'supertest';
 import { afterAll, beforeAll, beforeEach, describe, expect, it } from 'vitest';
 import { publishedNotebookResponseSchema } from '../../shared/api/publications.js';
-import { isPlainSvg } from '../../server/engine/chart-svg.js';
+import { chartSvg, isPlainSvg } from '../../server/engine/chart-svg.js';
 import { fitBytes } from './helpers/fixtures.js';
 import { recipeDoc } from './helpers/recipe-notebook.js';
 import { createTestApp, personalWorkspaceOf, signUp, type Agent, type TestApp } from './helpers/test-app.js';
@@ -79,6 +79,28 @@ describe('charts drawn at publish time', () => {
     const charts = (run.snapshot?.cells ?? []).filter((c) => c.result?.type === 'chart');
     expect(charts.length).toBeGreaterThan(0);
     expect(charts.every((c) => c.result!.svg === undefined)).toBe(true);
+  });
+});
+
+describe('a chart drawn on the server', () => {
+  const scatter = (n: number) => ({
+    width: 'container',
+    title: 'Agreement',
+    data: { values: Array.from({ length: n }, (_, i) => ({ mean: 100 + i, diff: Math.sin(i) * 10 })) },
+    mark: 'point',
+    encoding: { x: { field: 'mean', type: 'quantitative', title: 'Mean of both (W)' }, y: { field: 'diff', type: 'quantitative' } },
+  });
+
+  it('labels each mark of a small chart, and only the axes, title and legend of one with many points', async () => {
+    const few = await chartSvg(scatter(20));
+    expect((few.match(/role="graphics-symbol" aria-roledescription="point"/g) ?? []).length).toBe(20);
+    const many = await chartSvg(scatter(2000));
+    expect((many.match(/role="graphics-symbol" aria-roledescription="point"/g) ?? []).length).toBe(0);
+    expect((many.match(/<path aria-hidden="true" transform=/g) ?? []).length).toBe(2000);
+    expect(many).toContain("aria-label=\"X-axis titled 'Mean of both (W)'");
+    expect(many).toContain('>Agreement</text>');
+    // A container-wide chart gets the published page's width.
+    expect(many).toMatch(/^<svg[^>]* width="816"/);
   });
 });
 
