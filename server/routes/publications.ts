@@ -3,7 +3,7 @@ import { idParamsSchema } from '../../shared/api/common.js';
 import { publicationSlugParamsSchema, publishBodySchema, publishedFileParamsSchema } from '../../shared/api/publications.js';
 import type { AppContext } from '../context.js';
 import { requireSession, userIdOf } from '../middleware/session.js';
-import { bodyFor, PublishedPageCache } from '../services/published-pages.js';
+import { bodyFor, publishedPagesOf } from '../services/published-pages.js';
 import * as publications from '../services/publications.js';
 
 /** Publishing (editors) and the public reader's routes under /api/published. */
@@ -12,12 +12,10 @@ export function publicationRoutes(ctx: AppContext): Router {
   const db = ctx.database.db;
   const signedIn = requireSession(ctx.auth);
   const baseUrl = ctx.config.baseUrl;
-  const pages = new PublishedPageCache();
+  const pages = publishedPagesOf(ctx.database);
   router.post('/notebooks/:id/publication', signedIn, async (req, res) => {
     const { id } = idParamsSchema.parse(req.params);
-    const published = await publications.publish(db, userIdOf(res), id, publishBodySchema.parse(req.body ?? {}), baseUrl);
-    pages.forget(published.slug);
-    res.json(published);
+    res.json(await publications.publish(db, userIdOf(res), id, publishBodySchema.parse(req.body ?? {}), baseUrl));
   });
   router.get('/notebooks/:id/publication', signedIn, async (req, res) => {
     const { id } = idParamsSchema.parse(req.params);
@@ -25,7 +23,7 @@ export function publicationRoutes(ctx: AppContext): Router {
   });
   router.delete('/notebooks/:id/publication', signedIn, async (req, res) => {
     const { id } = idParamsSchema.parse(req.params);
-    pages.forget(await publications.unpublish(db, userIdOf(res), id));
+    await publications.unpublish(db, userIdOf(res), id);
     res.status(204).end();
   });
   router.get('/published', async (_req, res) => {

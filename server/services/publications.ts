@@ -1,13 +1,14 @@
 import { randomBytes } from 'node:crypto';
-import type { PublishBody, Publication, PublishedListResponse, PublishedNotebookResponse } from '../../shared/api/publications.js';
+import type { PublishBody, Publication, PublishedListResponse } from '../../shared/api/publications.js';
 import type { Snapshot } from '../../shared/api/snapshots.js';
 import { DEMO_PUBLISHED_NOTEBOOK } from '../../shared/demo/sample-files.js';
 import type { Db } from '../db/client.js';
 import { findNotebookForUser, listNotebooksForUser } from '../db/repositories/notebooks.js';
 import * as repo from '../db/repositories/publications.js';
-import { findUploadBySha, readUploadBytes } from '../db/repositories/uploads.js';
+import { readUploadBytes } from '../db/repositories/uploads.js';
 import { notFound } from '../errors.js';
 import { assertNotebook, assertPublishedDownload } from './policy.js';
+import { forgetPublishedPage, publishedFiles } from './published-pages.js';
 import type { DemoSeed, DemoServices } from './seed.js';
 import { computeSnapshot, resolveBindings, revisionDocument } from './snapshot.js';
 
@@ -32,7 +33,9 @@ export async function publish(db: Db, userId: string, notebookId: string, body: 
     allowDownloads: body.allowDownloads,
     publishedBy: userId,
   });
-  return toPublication((await repo.findPublicationOfNotebook(db, notebookId))!, baseUrl);
+  const published = (await repo.findPublicationOfNotebook(db, notebookId))!;
+  forgetPublishedPage(db, published.slug);
+  return toPublication(published, baseUrl);
 }
 
 /**
@@ -46,12 +49,11 @@ export async function getPublication(db: Db, userId: string, notebookId: string,
   return found ? toPublication(found, baseUrl) : null;
 }
 
-/** Unpublishes the notebook; answers the slug it was published at. */
-export async function unpublish(db: Db, userId: string, notebookId: string): Promise<string> {
+export async function unpublish(db: Db, userId: string, notebookId: string): Promise<void> {
   assertNotebook(await findNotebookForUser(db, notebookId, userId), 'edit');
   const slug = await repo.deletePublication(db, notebookId);
   if (slug === null) throw notFound('Publication');
-  return slug;
+  forgetPublishedPage(db, slug);
 }
 
 export async function listPublished(db: Db): Promise<PublishedListResponse> {
@@ -76,19 +78,6 @@ export async function readPublishedFile(db: Db, slug: string, uploadId: string):
   const bytes = await readUploadBytes(db, uploadId);
   if (!bytes) throw notFound('File');
   return { fileName: file!.fileName, bytes };
-}
-
-/**
- * The snapshot names its inputs by content hash; the stored upload with those bytes is the file.
- * No route removes uploads, so the list holds for the life of a publication.
- */
-export async function publishedFiles(db: Db, snapshot: Snapshot): Promise<NonNullable<PublishedNotebookResponse['files']>> {
-  const files: NonNullable<PublishedNotebookResponse['files']> = [];
-  for (const input of snapshot.inputs) {
-    const upload = await findUploadBySha(db, input.sha256);
-    if (upload) files.push({ uploadId: upload.id, slot: input.slot, fileName: input.fileName, format: input.format, size: input.size });
-  }
-  return files;
 }
 
 function newSlug(title: string): string {

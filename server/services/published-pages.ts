@@ -2,10 +2,10 @@ import { createHash } from 'node:crypto';
 import { brotliCompress, constants as zlibConstants, gzip } from 'node:zlib';
 import type { PublishedFile } from '../../shared/api/publications.js';
 import type { Snapshot } from '../../shared/api/snapshots.js';
-import type { Db } from '../db/client.js';
+import type { Database, Db } from '../db/client.js';
 import * as repo from '../db/repositories/publications.js';
+import { findUploadBySha } from '../db/repositories/uploads.js';
 import { notFound } from '../errors.js';
-import { publishedFiles } from './publications.js';
 import { revisionDocument } from './snapshot.js';
 
 /** Content codings a page is kept in besides plain JSON. */
@@ -37,6 +37,8 @@ interface Frozen {
   digest: string;
   /** Last page built on this entry, reused while the live fields (title, publisher's name) stay the same. */
   page?: { live: string; page: PublishedPage };
+  /** The publication's row as last read, and when that read started (performance.now()). */
+  checked: { row: repo.PublicationRecord; at: number };
 }
 
 export interface PublishedPageCacheOptions {
@@ -44,30 +46,40 @@ export interface PublishedPageCacheOptions {
   maxEntries?: number;
   /** Most characters of snapshot JSON kept over all entries. */
   maxChars?: number;
+  /**
+   * How long a page checked against the database is sent without checking again, ms. 0 (the
+   * default) checks on every read; only a database no other process writes may trust longer.
+   */
+  trustForMs?: number;
 }
 
 /**
- * Published pages of one server process, by slug. Every read is checked against the
+ * Published pages of one server process, by slug. A read is checked against the
  * publication's small row in the database (no snapshot; readers arriving while that query
- * runs share it): an unpublished page is gone at once, and a page republished by another
- * process sharing the database is seen on the next read. Only the snapshot, which that
- * row's key pins, is reused. The many readers of a popular page then cost a few small
- * queries a second instead of reading, parsing and re-serialising the whole snapshot each,
- * which on embedded PGlite shares the one thread with every save.
+ * runs share it): an unpublished page is gone, and a page republished by another process
+ * sharing the database is seen, on the next read. Only the snapshot, which that row's key
+ * pins, is reused. The many readers of a popular page then cost a small query each at most,
+ * instead of reading, parsing and re-serialising the whole snapshot each. On embedded PGlite
+ * (see {@link publishedPagesOf}) even that query is saved for a moment, as it shares the
+ * one thread with every save.
  */
 export class PublishedPageCache {
   private readonly entries = new Map<string, Frozen>();
   private readonly loading = new Map<string, Promise<{ row: repo.PublicationRecord; frozen: Frozen }>>();
   private readonly checking = new Map<string, Promise<repo.PublicationRecord | undefined>>();
+  /** Counts forget() per slug: a read that started before one must not keep or trust what it read. */
+  private readonly generations = new Map<string, number>();
   private chars = 0;
   private readonly maxEntries: number;
   private readonly maxChars: number;
+  private readonly trustForMs: number;
   /** Reads answered from a kept snapshot and snapshots read from the database, for tests and diagnostics. */
   readonly stats = { hits: 0, fills: 0, checks: 0 };
 
   constructor(options: PublishedPageCacheOptions = {}) {
     this.maxEntries = options.maxEntries ?? 100;
     this.maxChars = options.maxChars ?? 64 * 1024 * 1024;
+    this.trustForMs = options.trustForMs ?? 0;
   }
 
   /**
@@ -78,7 +90,13 @@ export class PublishedPageCache {
    */
   async read(db: Db, slug: string): Promise<PublishedPage> {
     const kept = this.entries.get(slug);
+    if (kept && performance.now() - kept.checked.at < this.trustForMs) {
+      this.stats.hits++;
+      return pageOf(kept, kept.checked.row);
+    }
     if (kept) {
+      const at = performance.now();
+      const generation = this.generationOf(slug);
       const row = await this.check(db, slug);
       if (!row) {
         this.forget(slug);
@@ -87,6 +105,7 @@ export class PublishedPageCache {
       // The entry may have been replaced or dropped while the query ran: look again.
       const now = this.entries.get(slug);
       if (now && now.key === keyOf(row)) {
+        if (now.checked.at < at && generation === this.generationOf(slug)) now.checked = { row, at };
         this.stats.hits++;
         this.touch(slug, now);
         return pageOf(now, row);
@@ -98,9 +117,14 @@ export class PublishedPageCache {
 
   /** Drops what is kept for `slug`, so the next read asks the database afresh (after publishing or unpublishing here). */
   forget(slug: string): void {
+    this.generations.set(slug, this.generationOf(slug) + 1);
     this.checking.delete(slug);
     this.loading.delete(slug);
     this.drop(slug);
+  }
+
+  private generationOf(slug: string): number {
+    return this.generations.get(slug) ?? 0;
   }
 
   private drop(slug: string): void {
@@ -129,7 +153,9 @@ export class PublishedPageCache {
   private fill(db: Db, slug: string): Promise<{ row: repo.PublicationRecord; frozen: Frozen }> {
     const running = this.loading.get(slug);
     if (running) return running;
+    const generation = this.generationOf(slug);
     const load = (async () => {
+      const at = performance.now();
       const found = await repo.findPublicationBySlug(db, slug);
       if (!found) {
         this.drop(slug);
@@ -145,9 +171,11 @@ export class PublishedPageCache {
         description: document.description,
         files,
         digest: createHash('sha256').update(snapshotJson).update('\0').update(document.description).update('\0').update(JSON.stringify(files)).digest('base64url'),
+        checked: { row: found, at },
       };
       this.stats.fills++;
-      this.keep(slug, frozen);
+      // Forgotten meanwhile (published or unpublished here): serve this read, keep nothing.
+      if (generation === this.generationOf(slug)) this.keep(slug, frozen);
       return { row: found, frozen };
     })();
     const shared = load.finally(() => {
@@ -173,6 +201,46 @@ export class PublishedPageCache {
     this.entries.delete(slug);
     this.entries.set(slug, entry);
   }
+}
+
+/** One cache per open database, shared by every app on it (tests run several apps on one). */
+const cachesByDb = new WeakMap<Db, PublishedPageCache>();
+
+/**
+ * The published pages kept for `database`. On embedded PGlite this process is the only
+ * writer (the data folder is locked), and publishing or unpublishing here forgets the page
+ * at once ({@link forgetPublishedPage}), so a checked page is trusted for a second: only a
+ * renamed notebook or publisher shows up to a second late. On PostgreSQL, where other
+ * processes may republish or unpublish, every read checks.
+ */
+export function publishedPagesOf(database: Pick<Database, 'db' | 'kind'>): PublishedPageCache {
+  let cache = cachesByDb.get(database.db);
+  if (!cache) {
+    cache = new PublishedPageCache({ trustForMs: database.kind === 'pglite' ? PGLITE_TRUST_MS : 0 });
+    cachesByDb.set(database.db, cache);
+  }
+  return cache;
+}
+
+/** How long a checked page is trusted on embedded PGlite, ms. */
+export const PGLITE_TRUST_MS = 1000;
+
+/** Drops the kept page at `slug` of the database behind `db`, if any: after publishing or unpublishing it. */
+export function forgetPublishedPage(db: Db, slug: string): void {
+  cachesByDb.get(db)?.forget(slug);
+}
+
+/**
+ * The snapshot names its inputs by content hash; the stored upload with those bytes is the file.
+ * No route removes uploads, so the list holds for the life of a publication.
+ */
+export async function publishedFiles(db: Db, snapshot: Snapshot): Promise<PublishedFile[]> {
+  const files: PublishedFile[] = [];
+  for (const input of snapshot.inputs) {
+    const upload = await findUploadBySha(db, input.sha256);
+    if (upload) files.push({ uploadId: upload.id, slot: input.slot, fileName: input.fileName, format: input.format, size: input.size });
+  }
+  return files;
 }
 
 function keyOf(row: Pick<repo.PublicationRecord, 'notebookId' | 'revision' | 'publishedAt'>): string {

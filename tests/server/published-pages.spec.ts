@@ -5,7 +5,7 @@ import type { Express } from 'express';
 import { afterAll, beforeAll, beforeEach, describe, expect, it } from 'vitest';
 import type { Db } from '../../server/db/client.js';
 import { deletePublication, findPublicationBySlug, upsertPublication } from '../../server/db/repositories/publications.js';
-import { PublishedPageCache } from '../../server/services/published-pages.js';
+import { PGLITE_TRUST_MS, PublishedPageCache, publishedPagesOf } from '../../server/services/published-pages.js';
 import { publishedNotebookResponseSchema, type PublishedNotebookResponse } from '../../shared/api/publications.js';
 import type { Snapshot } from '../../shared/api/snapshots.js';
 import { fitBytes } from './helpers/fixtures.js';
@@ -151,6 +151,46 @@ describe('the kept snapshot', () => {
     expect(parsePage(renamed.body).revision).toBe(1);
     expect(renamed.etag).not.toBe(first.etag);
     expect(cache.stats.fills).toBe(1);
+  });
+});
+
+describe('trusting a checked page for a while', () => {
+  it('sends it without a query until the time is up or it is forgotten', async () => {
+    const cache = new PublishedPageCache({ trustForMs: 60_000 });
+    const { db, queries } = counting(t.database.db);
+    const first = await cache.read(db, slug);
+    const before = queries();
+    await Promise.all(Array.from({ length: 5 }, () => cache.read(db, slug)));
+    expect(queries() - before).toBe(0);
+    // A rename is not seen while the page is trusted; forgetting (as publishing or unpublishing does) ends that.
+    const current = (await editor.get(`/api/notebooks/${notebookId}`).expect(200)).body;
+    await editor.put(`/api/notebooks/${notebookId}`).send({ baseRevision: current.revision, document: { ...current.document, title: 'Renamed later' } }).expect(200);
+    expect((await cache.read(db, slug)).etag).toBe(first.etag);
+    cache.forget(slug);
+    expect(parsePage((await cache.read(db, slug)).body).title).toBe('Renamed later');
+  });
+
+  it('keeps nothing a read fetched while the page was being forgotten', async () => {
+    const cache = new PublishedPageCache({ trustForMs: 60_000 });
+    const reading = cache.read(t.database.db, slug);
+    cache.forget(slug); // e.g. a republish committed while the snapshot was on its way
+    await reading;
+    await cache.read(t.database.db, slug);
+    expect(cache.stats.fills).toBe(2);
+  });
+
+  it('on embedded PGlite the app trusts a checked page for a second; on PostgreSQL it checks every read', async () => {
+    const cache = publishedPagesOf(t.database);
+    expect(publishedPagesOf(t.database)).toBe(cache);
+    await cache.read(t.database.db, slug);
+    const { db, queries } = counting(t.database.db);
+    await cache.read(db, slug);
+    expect(queries()).toBe(t.database.kind === 'pglite' ? 0 : 1);
+    if (t.database.kind === 'pglite') {
+      await new Promise((r) => setTimeout(r, PGLITE_TRUST_MS + 50));
+      await cache.read(db, slug);
+      expect(queries()).toBe(1);
+    }
   });
 });
 
