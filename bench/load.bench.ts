@@ -1,9 +1,10 @@
+import { get } from 'node:http';
 import { setUpEditors } from './load/editors.js';
 import { describeFigures, type LoadFigures } from './load/figures.js';
 import { loadProblems, runMixedLoad } from './load/mixed.js';
 import { createDatabase, openPostgres } from './load/postgres.js';
-import { findPublishedSlug, runReaders } from './load/readers.js';
-import { settle, startLoadServer, type LoadServer } from './load/server.js';
+import { findPublishedSlug, READER_HEADERS, runReaders } from './load/readers.js';
+import { describeLoadFailure, saveServerOutput, settle, startLoadServer, type LoadServer } from './load/server.js';
 import type { BenchOptions, BenchRow } from './types.js';
 
 const READERS = 50;
@@ -30,7 +31,7 @@ export async function benchLoad(options: BenchOptions = { quick: false }): Promi
 
   const server = await startLoadServer();
   try {
-    rows.push(...(await measure(server, 'PGlite', durations, true)));
+    rows.push(...(await measureOrExplain(server, 'PGlite', durations, true)));
   } finally {
     await server.stop();
   }
@@ -45,7 +46,7 @@ export async function benchLoad(options: BenchOptions = { quick: false }): Promi
     try {
       const pgServer = await startLoadServer({ databaseUrl: db.url });
       try {
-        const pgRows = await measure(pgServer, 'PostgreSQL', durations, false);
+        const pgRows = await measureOrExplain(pgServer, 'PostgreSQL', durations, false);
         pgRows[0]!.note = `${pgRows[0]!.note}; ${pg.source}`;
         rows.push(...pgRows);
       } finally {
@@ -60,10 +61,20 @@ export async function benchLoad(options: BenchOptions = { quick: false }): Promi
   return rows;
 }
 
+/** {@link measure}, and when it breaks off, an error that says why in one line (the bench table shows one). */
+async function measureOrExplain(server: LoadServer, label: string, d: Durations, readersAlone: boolean): Promise<BenchRow[]> {
+  try {
+    return await measure(server, label, d, readersAlone);
+  } catch (error) {
+    throw new Error(`${label}: ${describeLoadFailure(server, error, label)}`, { cause: error });
+  }
+}
+
 async function measure(server: LoadServer, label: string, d: Durations, readersAlone: boolean): Promise<BenchRow[]> {
   const slug = await findPublishedSlug(server.url);
   const page = `/api/published/${slug}`;
-  const pageKb = (await (await fetch(`${server.url}${page}`)).arrayBuffer()).byteLength / 1024;
+  const pageKb = (await pageBytes(`${server.url}${page}`, {})) / 1024;
+  const sentKb = (await pageBytes(`${server.url}${page}`, READER_HEADERS)) / 1024;
   await runReaders({ url: server.url, path: '/api/health', connections: READERS, durationS: d.warmS });
   await runReaders({ url: server.url, path: page, connections: READERS, durationS: d.warmS });
   await settle(server);
@@ -76,7 +87,7 @@ async function measure(server: LoadServer, label: string, d: Durations, readersA
   if (readersAlone) {
     const reads = await withCpu(server, () => runReaders({ url: server.url, path: page, connections: READERS, durationS: d.readS }));
     rows.push(
-      throughput(`load ${label}: published page, ${READERS} readers`, reads, health, `${describeFigures(reads)}; ${pageKb.toFixed(0)} kB per page, server CPU ${perRequest(reads)}; ${floor}; ratio = page/health throughput, higher is better${clean(reads)}`),
+      throughput(`load ${label}: published page, ${READERS} readers`, reads, health, `${describeFigures(reads)}; ${pageKb.toFixed(0)} kB per page (${sentKb.toFixed(0)} kB as sent to a browser), server CPU ${perRequest(reads)}; ${floor}; ratio = page/health throughput, higher is better${clean(reads)}`),
       latency(`load ${label}: published page p99, ${READERS} readers`, reads, health, `p99 against the health route's p99 under the same load; lower is better`),
     );
     await settle(server);
@@ -89,7 +100,10 @@ async function measure(server: LoadServer, label: string, d: Durations, readersA
   // Includes the audit's reads of each history: a few requests next to thousands.
   const mixedCpu = `server CPU ${((server.cpuMs() - cpuBefore) / (mixed.reads.requests + mixed.saves.requests)).toFixed(2)} ms/request`;
   const problems = loadProblems(mixed);
-  const verdict = problems.length === 0 ? `; ${mixed.audit.acknowledged} acknowledged saves all in the history` : `; CHECK FAILED: ${problems.slice(0, 3).join('; ')}`;
+  const verdict =
+    problems.length === 0
+      ? `; ${mixed.audit.acknowledged} acknowledged saves all in the history`
+      : `; CHECK FAILED: ${problems.slice(0, 3).join('; ')} (server ${server.ended() ?? 'still running'}; ${saveServerOutput(server, label)})`;
   const offered = EDITORS / (AUTOSAVE_MS / 1000);
   rows.push(
     throughput(`load ${label}: reads with ${EDITORS} editors saving`, mixed.reads, health, `${describeFigures(mixed.reads)}; ${d.mixedS} s, ${mixedCpu}; ${label === 'PGlite' ? '' : `${floor}; `}ratio = page/health throughput${clean(mixed.reads)}`),
@@ -112,6 +126,18 @@ async function measure(server: LoadServer, label: string, d: Durations, readersA
     },
   );
   return rows;
+}
+
+/** Bytes of one answer as they come over the wire (node:http does not decode them, fetch would). */
+function pageBytes(url: string, headers: Record<string, string>): Promise<number> {
+  return new Promise((resolve, reject) => {
+    get(url, { headers }, (res) => {
+      let n = 0;
+      res.on('data', (chunk: Buffer) => (n += chunk.length));
+      res.on('end', () => resolve(n));
+      res.on('error', reject);
+    }).on('error', reject);
+  });
 }
 
 /** Figures plus the server's CPU time over the run, so a busy machine's share of the CPU can be told apart from the server's own cost. */

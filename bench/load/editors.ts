@@ -1,5 +1,6 @@
 import { emptyNotebook, type NotebookDocument } from '../../shared/notebook/document.js';
 import { percentile, type LoadFigures } from './figures.js';
+import { describeError } from './server.js';
 
 /** A signed-in account with a notebook of its own that it autosaves. */
 export interface Editor {
@@ -18,11 +19,13 @@ const PASSWORD = 'load-test-password-1';
 /** A save unanswered after this long counts as an error (the editor would see it hang). */
 const SAVE_TIMEOUT_MS = 60_000;
 
-/** fetch's errors wrap the socket's: name both, e.g. `TypeError: fetch failed (ECONNRESET)`. */
-function describeError(error: unknown): string {
-  if (!(error instanceof Error)) return String(error);
-  const cause = error.cause as { code?: string; message?: string } | undefined;
-  return `${error.name}: ${error.message}${cause ? ` (${cause.code ?? cause.message})` : ''}`;
+/** fetch, naming the request and the socket-level cause when it fails without an answer. */
+async function send(url: string, init: RequestInit & { method: string }, path: string): Promise<Response> {
+  try {
+    return await fetch(`${url}${path}`, init);
+  } catch (error) {
+    throw new Error(`${init.method} ${path}: ${describeError(error)}`, { cause: error });
+  }
 }
 
 function headersOf(url: string, address: string, cookie?: string): Record<string, string> {
@@ -33,12 +36,12 @@ function headersOf(url: string, address: string, cookie?: string): Record<string
 /** Sign-up through better-auth; waits out its limiter (429 with X-Retry-After) should one address hit it. */
 async function signUp(url: string, email: string, address: string): Promise<string> {
   for (let attempt = 0; ; attempt++) {
-    const res = await fetch(`${url}/api/auth/sign-up/email`, {
+    const res = await send(url, {
       method: 'POST',
       headers: headersOf(url, address),
       body: JSON.stringify({ email, password: PASSWORD, name: `Load editor ${email.split('@')[0]}` }),
       signal: AbortSignal.timeout(60_000),
-    });
+    }, '/api/auth/sign-up/email');
     const retryAfter = Number(res.headers.get('x-retry-after'));
     if (res.status === 429 && retryAfter && attempt < 5) {
       await new Promise((r) => setTimeout(r, Math.min(retryAfter, 15) * 1000 + 100));
@@ -55,12 +58,12 @@ async function signUp(url: string, email: string, address: string): Promise<stri
 }
 
 async function call<T>(url: string, editor: Pick<Editor, 'address' | 'cookie'>, method: string, path: string, body?: unknown): Promise<T> {
-  const res = await fetch(`${url}${path}`, {
+  const res = await send(url, {
     method,
     headers: headersOf(url, editor.address, editor.cookie),
     body: body === undefined ? undefined : JSON.stringify(body),
     signal: AbortSignal.timeout(60_000),
-  });
+  }, path);
   const text = await res.text();
   if (!res.ok) throw new Error(`${method} ${path} answered ${res.status}: ${text.slice(0, 300)}`);
   return JSON.parse(text) as T;

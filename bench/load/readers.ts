@@ -1,5 +1,6 @@
 import { createRequire } from 'node:module';
 import type { LoadFigures } from './figures.js';
+import { describeError } from './server.js';
 
 /** The part of autocannon's result this driver reads (the package ships no types). */
 interface AutocannonResult {
@@ -32,11 +33,18 @@ export interface ReaderOptions {
   /** Concurrent connections, each sending its next request when the last one is answered. */
   connections: number;
   durationS: number;
+  /** Request headers; default {@link READER_HEADERS}. */
+  headers?: Record<string, string>;
 }
+
+/** What a browser sends with the published page's request: JSON, compressed as it takes it. */
+export const READER_HEADERS = { accept: 'application/json', 'accept-encoding': 'gzip, deflate, br' } as const;
 
 /**
  * Anonymous readers hammering one GET route with autocannon: each connection keeps one
- * request in flight for the whole run (no pipelining), as many readers reloading a page.
+ * request in flight for the whole run (no pipelining), as many readers reloading a page,
+ * with a browser's Accept-Encoding (the server compresses what it can). No reader sends
+ * If-None-Match: every answer is the whole page, as for first-time visitors.
  */
 export async function runReaders(options: ReaderOptions): Promise<LoadFigures> {
   const result = await autocannon({
@@ -44,7 +52,7 @@ export async function runReaders(options: ReaderOptions): Promise<LoadFigures> {
     connections: options.connections,
     duration: options.durationS,
     timeout: 60,
-    headers: { accept: 'application/json' },
+    headers: { ...(options.headers ?? READER_HEADERS) },
   });
   const statuses: Record<string, number> = {};
   for (const [code, { count }] of Object.entries(result.statusCodeStats ?? {})) statuses[code] = Number(count);
@@ -61,7 +69,9 @@ export async function runReaders(options: ReaderOptions): Promise<LoadFigures> {
 
 /** The slug of a published notebook (the demo lab publishes one), from GET /api/published. */
 export async function findPublishedSlug(url: string): Promise<string> {
-  const res = await fetch(`${url}/api/published`, { signal: AbortSignal.timeout(30_000) });
+  const res = await fetch(`${url}/api/published`, { signal: AbortSignal.timeout(30_000) }).catch((error: unknown) => {
+    throw new Error(`GET /api/published: ${describeError(error)}`, { cause: error });
+  });
   if (!res.ok) throw new Error(`GET /api/published answered ${res.status}`);
   const body = (await res.json()) as { publications: { slug: string }[] };
   const slug = body.publications[0]?.slug;

@@ -1,5 +1,5 @@
 import { spawn, type ChildProcess } from 'node:child_process';
-import { existsSync, mkdtempSync, readFileSync, rmSync } from 'node:fs';
+import { existsSync, mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { createServer } from 'node:net';
 import { tmpdir } from 'node:os';
 import { dirname, join } from 'node:path';
@@ -12,6 +12,8 @@ export interface LoadServer {
   database: string;
   /** Everything the process printed, for a failure message. */
   output(): string;
+  /** How the process ended (`exited with code 1`, `killed by SIGABRT`), or null while it runs. */
+  ended(): string | null;
   /** CPU time the server process has used so far (user + system), ms; NaN where /proc is missing. */
   cpuMs(): number;
   /** SIGTERM (SIGKILL after 10 s) and removes the temporary data folder. */
@@ -23,6 +25,10 @@ export interface LoadServerOptions {
   databaseUrl?: string;
   /** A fresh data folder takes a while, and the demo lab computes its published snapshot on first start. */
   readyWithinMs?: number;
+  /** Extra node flags for the server process, e.g. `['--cpu-prof', '--cpu-prof-dir=/tmp/prof']` to profile it under load. */
+  nodeArgs?: string[];
+  /** Extra environment for the server process, e.g. `{ LOG_LEVEL: 'info' }`. */
+  env?: Record<string, string>;
 }
 
 /** The repository root: the nearest folder above this file holding Cogbook's package.json (source or dist/node). */
@@ -51,7 +57,41 @@ export async function settle(server: LoadServer, withinMs = 120_000): Promise<vo
     const used = server.cpuMs() - before;
     if (!(used > 50)) break; // NaN (no /proc) counts as settled
   }
-  await fetch(`${server.url}/api/health`, { signal: AbortSignal.timeout(withinMs) });
+  try {
+    await fetch(`${server.url}/api/health`, { signal: AbortSignal.timeout(withinMs) });
+  } catch (error) {
+    throw new Error(`GET /api/health after the run: ${describeError(error)}`, { cause: error });
+  }
+}
+
+/** Writes everything the server printed to a file in the temporary folder; answers a phrase naming it. */
+export function saveServerOutput(server: LoadServer, label: string): string {
+  const log = join(tmpdir(), `cogbook-load-${label.toLowerCase()}-${process.pid}-${Date.now()}.log`);
+  try {
+    writeFileSync(log, server.output());
+    return `whole server output in ${log}`;
+  } catch (error) {
+    return `server output not saved: ${describeError(error)}`;
+  }
+}
+
+/**
+ * One line saying why a load run broke off, for a bench row or an assertion: the error with
+ * its socket-level cause, whether the server was still running, its last line of output,
+ * and the file holding the rest.
+ */
+export function describeLoadFailure(server: LoadServer, error: unknown, label: string): string {
+  const last = server.output().trim().split('\n').at(-1)?.slice(0, 300) ?? '';
+  return `${describeError(error)}; server ${server.ended() ?? 'still running'}; its last line: ${last || '(none)'}; ${saveServerOutput(server, label)}`;
+}
+
+/** fetch's errors wrap the socket's: name both, e.g. `TypeError: fetch failed (ECONNRESET: read ECONNRESET)`. */
+export function describeError(error: unknown): string {
+  if (!(error instanceof Error)) return String(error);
+  const cause = error.cause as { code?: string; message?: string } | undefined;
+  // A wrapped error (see the callers) already carries its cause's message.
+  const why = cause && !(cause.message && error.message.includes(cause.message)) ? [cause.code, cause.message].filter(Boolean).join(': ') : '';
+  return `${error.name}: ${error.message}${why ? ` (${why})` : ''}`;
 }
 
 /** utime + stime of a process from /proc/PID/stat (fields 14 and 15, in clock ticks of 10 ms on Linux). */
@@ -108,7 +148,7 @@ async function startOnce(options: LoadServerOptions): Promise<LoadServer> {
   const port = await freePort();
   const url = `http://127.0.0.1:${port}`;
   const dataDir = mkdtempSync(join(tmpdir(), 'cogbook-load-'));
-  const child: ChildProcess = spawn(process.execPath, [entry], {
+  const child: ChildProcess = spawn(process.execPath, [...(options.nodeArgs ?? []), entry], {
     cwd: root,
     env: {
       PATH: process.env.PATH ?? '',
@@ -123,6 +163,7 @@ async function startOnce(options: LoadServerOptions): Promise<LoadServer> {
       TRUST_PROXY: 'loopback',
       AUTH_SECRET: 'load-bench-secret-load-bench-secret-0123',
       LOG_LEVEL: 'warn',
+      ...options.env,
     },
     stdio: ['ignore', 'pipe', 'pipe'],
   });
@@ -152,7 +193,9 @@ async function startOnce(options: LoadServerOptions): Promise<LoadServer> {
       const res = await fetch(`${url}/api/health`, { signal: AbortSignal.timeout(5_000) });
       if (res.ok) {
         const health = (await res.json()) as { database: string };
-        return { url, database: health.database, output: () => output, cpuMs: () => processCpuMs(child.pid), stop };
+        const ended = () =>
+          child.signalCode !== null ? `killed by ${child.signalCode}` : child.exitCode !== null ? `exited with code ${child.exitCode}` : null;
+        return { url, database: health.database, output: () => output, ended, cpuMs: () => processCpuMs(child.pid), stop };
       }
     } catch {
       // not listening yet

@@ -4,7 +4,7 @@ import { describeFigures } from '../../bench/load/figures.js';
 import { loadProblems, runMixedLoad } from '../../bench/load/mixed.js';
 import { createDatabase } from '../../bench/load/postgres.js';
 import { findPublishedSlug } from '../../bench/load/readers.js';
-import { settle, startLoadServer, type LoadServer } from '../../bench/load/server.js';
+import { describeLoadFailure, settle, startLoadServer, type LoadServer } from '../../bench/load/server.js';
 
 /**
  * The built server (npm run build:node) under 50 readers of a published notebook and 20
@@ -28,9 +28,13 @@ function loadSuite(label: string, databaseUrl: () => Promise<{ url?: string; dro
     drop = db.drop;
     // A first start seeds the demo lab and computes its published snapshot: minutes on a busy machine.
     server = await startLoadServer({ ...(db.url ? { databaseUrl: db.url } : {}), readyWithinMs: 600_000 });
-    slug = await findPublishedSlug(server.url);
-    editors = await setUpEditors(server.url, EDITORS, label.toLowerCase());
-    await settle(server);
+    try {
+      slug = await findPublishedSlug(server.url);
+      editors = await setUpEditors(server.url, EDITORS, label.toLowerCase());
+      await settle(server);
+    } catch (error) {
+      throw new Error(describeLoadFailure(server, error, label), { cause: error });
+    }
   }, 900_000);
 
   afterAll(async () => {
