@@ -254,17 +254,9 @@ export function decodeFit(bytes: Uint8Array, frames: FitFrames): DecodedFit | un
   let count = 0;
   for (let i = 0; i < dataGlobals.length; i++) if (dataGlobals[i] === RECORD) count++;
   const layouts = new Map<number, Layout>();
-  const layoutAt = (defAt: number): Layout => {
-    let layout = layouts.get(defAt);
-    if (layout === undefined) {
-      layout = readLayout(bytes, defAt);
-      layouts.set(defAt, layout);
-    }
-    return layout;
-  };
   const scan: Scan = { ms: new Float64Array(count).fill(NaN), recordAt: new Int32Array(count), recordDef: new Int32Array(count), others: [] };
-  if (!scanMessages(bytes, dataStarts, dataDefs, layoutAt, scan)) return undefined;
-  const parsed = readOtherMessages(bytes, dataStarts, dataDefs, scan.others, layoutAt);
+  if (!scanMessages(bytes, dataStarts, dataDefs, layouts, scan)) return undefined;
+  const parsed = readOtherMessages(bytes, dataStarts, dataDefs, scan.others, layouts);
   if (parsed === undefined) return undefined;
   const recordLayouts = [...layouts].filter(([, l]) => l.global === RECORD);
   const names = parsed.field_descriptions!;
@@ -275,11 +267,24 @@ export function decodeFit(bytes: Uint8Array, frames: FitFrames): DecodedFit | un
     // In field order, so of a field repeated in one definition the last valid copy wins.
     for (let f = 0; f < l.slotAt.length; f++) {
       const slot = l.slot[f]!;
-      const read = SLOT_BASE[slot] === UINT16 ? readUint16Column : SLOT_BASE[slot] === UINT32 ? readUint32Column : readUint8Column;
-      slots[slot] = read(bytes, scan.recordAt, only, defAt, l.slotAt[f]!, l.littleEndian, SLOT_SCALE[slot]!, slots[slot]);
+      const at = l.slotAt[f]!;
+      // Direct calls (not through a variable) keep each call site to one target.
+      if (SLOT_BASE[slot] === UINT16) slots[slot] = readUint16Column(bytes, scan.recordAt, only, defAt, at, l.littleEndian, SLOT_SCALE[slot]!, slots[slot]);
+      else if (SLOT_BASE[slot] === UINT32) slots[slot] = readUint32Column(bytes, scan.recordAt, only, defAt, at, l.littleEndian, SLOT_SCALE[slot]!, slots[slot]);
+      else slots[slot] = readUint8Column(bytes, scan.recordAt, only, defAt, at, SLOT_SCALE[slot]!, slots[slot]);
     }
   }
   return { records: recordColumns(slots, scan.ms, count), parsed };
+}
+
+/** The layout of the definition at `defAt`, read once per file. */
+function layoutOf(layouts: Map<number, Layout>, bytes: Uint8Array, defAt: number): Layout {
+  let layout = layouts.get(defAt);
+  if (layout === undefined) {
+    layout = readLayout(bytes, defAt);
+    layouts.set(defAt, layout);
+  }
+  return layout;
 }
 
 /** What {@link scanMessages} fills: per record its timestamp, content offset and definition; the other messages wanted. */
@@ -296,7 +301,7 @@ interface Scan {
  * message, as fit-file-parser keeps it) and where each record starts. False: decline the file.
  * Kept small, as it runs once per message before the JIT has warmed up.
  */
-function scanMessages(bytes: Uint8Array, dataStarts: Int32Array, dataDefs: Int32Array, layoutAt: (defAt: number) => Layout, scan: Scan): boolean {
+function scanMessages(bytes: Uint8Array, dataStarts: Int32Array, dataDefs: Int32Array, layouts: Map<number, Layout>, scan: Scan): boolean {
   const { ms, recordAt, recordDef, others } = scan;
   let last = -1; // the last timestamp, -1: none
   let r = 0;
@@ -308,7 +313,7 @@ function scanMessages(bytes: Uint8Array, dataStarts: Int32Array, dataDefs: Int32
   for (let i = 0; i < dataStarts.length; i++) {
     if (dataDefs[i] !== defAt) {
       defAt = dataDefs[i]!;
-      const layout = layoutAt(defAt);
+      const layout = layoutOf(layouts, bytes, defAt);
       if (!layout.plainTimestamps) return false;
       stamps = layout.timestampAt;
       littleEndian = layout.littleEndian;
@@ -353,11 +358,11 @@ function readUint32(bytes: Uint8Array, p: number, littleEndian: boolean): number
 }
 
 /** file_id, device_info, file_creator, event, lap and field_description messages in fit-file-parser's shape; undefined: decline. */
-function readOtherMessages(bytes: Uint8Array, dataStarts: Int32Array, dataDefs: Int32Array, others: readonly number[], layoutAt: (defAt: number) => Layout): ParsedFitLike | undefined {
+function readOtherMessages(bytes: Uint8Array, dataStarts: Int32Array, dataDefs: Int32Array, others: readonly number[], layouts: Map<number, Layout>): ParsedFitLike | undefined {
   const view = new DataView(bytes.buffer, bytes.byteOffset, bytes.byteLength);
   const lists = new Map<number, FitParsedMessage[]>([FILE_ID, DEVICE_INFO, FILE_CREATOR, EVENT, LAP, FIELD_DESCRIPTION].map((g) => [g, []]));
   for (const i of others) {
-    const layout = layoutAt(dataDefs[i]!);
+    const layout = layoutOf(layouts, bytes, dataDefs[i]!);
     if (layout.hasDeveloperFields) return undefined;
     const message = readMessage(bytes, view, dataStarts[i]! + 1, layout);
     if (message === undefined) return undefined;
@@ -381,7 +386,7 @@ function readOtherMessages(bytes: Uint8Array, dataStarts: Int32Array, dataDefs: 
  * NaN, on the first valid value. A field longer than its type (an array) is read as its first
  * element, as fit-file-parser does. One function per width keeps each loop small and monomorphic.
  */
-function readUint8Column(bytes: Uint8Array, recordAt: Int32Array, recordDef: Int32Array | undefined, defAt: number, offset: number, _le: boolean, scale: number, col: Float64Array | undefined): Float64Array | undefined {
+function readUint8Column(bytes: Uint8Array, recordAt: Int32Array, recordDef: Int32Array | undefined, defAt: number, offset: number, scale: number, col: Float64Array | undefined): Float64Array | undefined {
   for (let r = 0; r < recordAt.length; r++) {
     if (recordDef !== undefined && recordDef[r] !== defAt) continue;
     const raw = bytes[recordAt[r]! + offset]!;

@@ -11,4 +11,12 @@ describe('fitCrc', () => {
       expect(fitCrc(bytes)).toBe(CrcCalculator.calculateCRC(bytes, 0, len));
     }
   });
+
+  it('matches it on every start and end within a buffer', () => {
+    const rnd = createRandom(5);
+    const bytes = Uint8Array.from({ length: 40 }, () => rnd.int(0, 255));
+    for (let start = 0; start < 12; start++) {
+      for (let end = start; end <= bytes.length; end++) expect(fitCrc(bytes, start, end)).toBe(CrcCalculator.calculateCRC(bytes, start, end));
+    }
+  });
 });
