@@ -9,7 +9,8 @@ export function downloadUrl(url: string, fileName: string): void {
   a.click();
 }
 
-function csvCell(v: unknown): string {
+/** One CSV field: empty for missing or non-finite numbers, quoted when it holds a quote, comma or line break. */
+export function csvCell(v: unknown): string {
   if (v === null || v === undefined || (typeof v === 'number' && !Number.isFinite(v))) return '';
   const s = String(v);
   return /[",\n]/.test(s) ? `"${s.replace(/"/g, '""')}"` : s;
