@@ -64,7 +64,7 @@ describe('front door', () => {
     const { page, problems } = await freshPage();
     await signInAs(page, server.url, 'analyst@ridgeline.test');
 
-    await expect.poll(() => page.locator('.library-table a').count()).toBeGreaterThanOrEqual(3);
+    await expect.poll(() => page.locator('.library-table a').count(), { timeout: 30_000 }).toBeGreaterThanOrEqual(3);
     const table = await page.locator('.library-table').innerText();
     for (const s of listDemoScenarios()) expect(table).toContain(s.title);
 
