@@ -74,13 +74,19 @@ async function withProduct(options: BenchOptions, body: (server: RunningServer, 
   }
 }
 
-async function measure(server: RunningServer, browser: Browser, sizes: Sizes): Promise<BenchRow[]> {
+/** The analyst's signed-in context, API helper, workspace and the baseline notebook both measurements start from. */
+async function signedInOwner(server: RunningServer, browser: Browser) {
   const owner = await browser.newContext({ viewport: { width: 1280, height: 860 } });
   owner.setDefaultTimeout(120_000);
   const api = new BenchApi(owner.request, server.url);
   await api.signIn(ACCOUNT, DEMO_PASSWORD);
   const workspaceId = await api.workspaceId();
   const tiny = await api.createNotebook(workspaceId, tinyNotebook('Benchmark baseline'));
+  return { owner, api, workspaceId, tiny };
+}
+
+async function measure(server: RunningServer, browser: Browser, sizes: Sizes): Promise<BenchRow[]> {
+  const { owner, api, workspaceId, tiny } = await signedInOwner(server, browser);
   const rows: BenchRow[] = [];
   let publishedBig: { id: string; label: string } | undefined;
   for (const rateHz of [1, 10] as const) {
@@ -102,12 +108,7 @@ async function measure(server: RunningServer, browser: Browser, sizes: Sizes): P
 }
 
 async function measurePublished(server: RunningServer, browser: Browser, sizes: Sizes): Promise<BenchRow[]> {
-  const owner = await browser.newContext({ viewport: { width: 1280, height: 860 } });
-  owner.setDefaultTimeout(120_000);
-  const api = new BenchApi(owner.request, server.url);
-  await api.signIn(ACCOUNT, DEMO_PASSWORD);
-  const workspaceId = await api.workspaceId();
-  const tiny = await api.createNotebook(workspaceId, tinyNotebook('Benchmark baseline'));
+  const { owner, api, workspaceId, tiny } = await signedInOwner(server, browser);
   const label = `3 x ${sizes.hours} h 1 Hz`;
   log(`${label}: writing and uploading the recordings`);
   const big = await api.createNotebook(workspaceId, benchNotebook(`Benchmark ${label}`, await api.upload(benchFiles(sizes.hours, 1))));
