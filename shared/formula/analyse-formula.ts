@@ -80,6 +80,31 @@ function splitStatements(engine: FormulaEngine, source: string): FormulaStatemen
  * @example analyseFormula(engine, 'd = a.x - a.y\nbias = avg(d)', 'c1').writes // ['d', 'bias']
  */
 export function analyseFormula(engine: FormulaEngine, source: string, cell: string): FormulaAnalysis {
+  let memo = analyses.get(engine);
+  if (!memo) analyses.set(engine, (memo = new Map()));
+  const key = `${cell}\u0000${source}`;
+  let known = memo.get(key);
+  if (!known) {
+    try {
+      known = { analysis: analyse(engine, source, cell) };
+    } catch (e) {
+      known = { error: e };
+    }
+    if (memo.size >= MEMO_LIMIT) memo.delete(memo.keys().next().value!);
+    memo.set(key, known);
+  }
+  if ('error' in known) throw known.error;
+  return known.analysis;
+}
+
+/**
+ * Analyses by engine and (cell, source): the graph is rebuilt on every run and most
+ * formulas have not changed since the last one. Results are never changed by readers.
+ */
+const analyses = new WeakMap<FormulaEngine, Map<string, { analysis: FormulaAnalysis } | { error: unknown }>>();
+const MEMO_LIMIT = 500;
+
+function analyse(engine: FormulaEngine, source: string, cell: string): FormulaAnalysis {
   try {
     engine.parse(source);
   } catch (e) {

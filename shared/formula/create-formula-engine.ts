@@ -1,5 +1,6 @@
 import { all, create, type MathJsInstance, type MathNode } from 'mathjs';
 import { EngineError } from '../errors.js';
+import { fastComparisons } from './fast-compare.js';
 import { libraryFunctions } from './library-functions.js';
 
 /** Most elements one formula value may hold (about 40 MB of numbers). */
@@ -100,7 +101,7 @@ export function createFormulaEngine(): FormulaEngine {
     };
   }
   // Order matters: `import` itself is among the blocked names, so it is replaced last.
-  math.import({ ...libraryFunctions(), ...limits }, { override: true });
+  math.import({ ...fastComparisons(math), ...libraryFunctions(), ...limits }, { override: true });
   math.import(blocked, { override: true });
   const names = new Set(Object.keys(math));
   return { math, parse, isBuiltin: (name) => names.has(name), isUnit };

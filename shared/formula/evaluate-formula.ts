@@ -1,4 +1,4 @@
-import type { MathNode } from 'mathjs';
+import type { EvalFunction, MathNode } from 'mathjs';
 import { EngineError, isEngineError, type EngineWarning, type Where } from '../errors.js';
 import type { FormulaAnalysis } from './analyse-formula.js';
 import { MAX_ELEMENTS, type FormulaEngine } from './create-formula-engine.js';
@@ -35,6 +35,15 @@ function withTicks(engine: FormulaEngine, node: MathNode): MathNode {
     const body = withTicks(engine, f.expr);
     return new FunctionAssignmentNode(f.name, f.params, new FunctionNode(new SymbolNode(TICK), [body]));
   });
+}
+
+/** Compiled statements by parsed node: an unchanged formula is not compiled again on the next run. */
+const compiledStatements = new WeakMap<MathNode, EvalFunction>();
+
+function compiled(engine: FormulaEngine, node: MathNode): EvalFunction {
+  let code = compiledStatements.get(node);
+  if (!code) compiledStatements.set(node, (code = withTicks(engine, node).compile()));
+  return code;
 }
 
 /** Rewrites mathjs's terse runtime messages into ones that say what to do. */
@@ -107,7 +116,7 @@ export function evaluateFormula(
     line = statement.line;
     let result: unknown;
     try {
-      result = withTicks(engine, statement.node).compile().evaluate(scope);
+      result = compiled(engine, statement.node).evaluate(scope);
     } catch (e) {
       throw explain(e, source, cell, line);
     }

@@ -31,10 +31,19 @@ export function isQuantity(v: unknown): v is Quantity {
 // instead of converting the list back.
 const sources = new WeakMap<unknown[], Float64Array>();
 
+// The list made from each column, reused by later runs while the column lives: an edit
+// recomputes one formula over columns that have not changed. Formulas cannot assign into
+// a list (analyseFormula refuses it) and the trade's functions only read, so a list is
+// never changed once made.
+const lists = new WeakMap<Float64Array, number[]>();
+
 function listFrom(v: Float64Array): number[] {
+  const known = lists.get(v);
+  if (known !== undefined) return known;
   const out: number[] = [];
   for (let i = 0; i < v.length; i++) out.push(v[i]!);
   sources.set(out, v);
+  lists.set(v, out);
   return out;
 }
 

@@ -44,6 +44,15 @@ function hashArrays(arrays: Float64Array[], seed: number): string {
  */
 export function hashRecording(recording: Recording): string {
   if (recording.meta.sha256) return `sha256:${recording.meta.sha256}`;
+  let key = recordingKeys.get(recording);
+  if (key === undefined) recordingKeys.set(recording, (key = hashContent(recording)));
+  return key;
+}
+
+/** Keys of recordings already hashed (recordings are never changed once made). */
+const recordingKeys = new WeakMap<Recording, string>();
+
+function hashContent(recording: Recording): string {
   const names = Object.keys(recording.columns).sort();
   const arrays = [recording.time, ...names.map((k) => recording.columns[k as keyof typeof recording.columns]!)];
   return hashText(JSON.stringify({ meta: recording.meta, events: recording.events, names })) + hashArrays(arrays, 7);
