@@ -48,13 +48,20 @@ export function useNotebookRun(engine: EngineClient) {
     active = null;
   }
 
-  /** Runs soon (after a short pause), or right after the run under way. */
+  function start(): void {
+    if (active) again = true;
+    else active = loop();
+  }
+
+  /**
+   * Runs soon (after a short pause), or right after the run under way. With no pause (the
+   * run key) the request goes to the worker in the same task as the key press, not after
+   * the next frame.
+   */
   function requestRun(delayMs = RUN_DELAY_MS): void {
     clearTimeout(timer);
-    timer = setTimeout(() => {
-      if (active) again = true;
-      else active = loop();
-    }, delayMs);
+    if (delayMs <= 0) queueMicrotask(start);
+    else timer = setTimeout(start, delayMs);
   }
 
   watch(() => store.document, (doc, before) => {
