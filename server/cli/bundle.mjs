@@ -7,8 +7,10 @@
 // loader one job each, and that cost more than reading one file (a 4 h FIT pair at load 4-5:
 // 10-30 % less wall time than an ES module entry with chunks; --help, which now scans the whole
 // file, ~20 ms more). Its parts still start on demand (esbuild turns each dynamic import into a
-// module that runs when first imported: the FIT reader only for FIT input, the schema only for
-// --json). The two libraries a comparison may not need stay outside it: fit-file-parser (only for
+// module that runs when first imported: the FIT reader only for FIT input, the report check only
+// for --json). The report schema goes in as JSON Schema, made here from the zod schema (tsc's
+// output of it), so --json checks its document with a plain function instead of loading zod
+// (about 20 ms of a FIT pair's start-up; CSV input still loads zod for its column mapping). The two libraries a comparison may not need stay outside it: fit-file-parser (only for
 // a FIT file Cogbook's own decoder leaves to it) and papaparse (only for CSV input).
 // Minified: less source for V8 to scan and compile on every start, the same output (no code here
 // reads a function's or class's own name: the error classes name themselves).
@@ -17,6 +19,7 @@ import { rm, writeFile } from 'node:fs/promises';
 import { dirname, join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { build } from 'esbuild';
+import { z } from 'zod';
 
 const root = join(dirname(fileURLToPath(import.meta.url)), '..', '..');
 const outdir = join(root, 'dist/node/server/cli');
@@ -44,8 +47,10 @@ const leftOut = {
 // Left over from builds that split the bundle into ES module chunks, and tsc's map of compare.js.
 await rm(join(outdir, 'compare-chunks'), { recursive: true, force: true });
 await rm(join(outdir, 'compare.js.map'), { force: true });
+const { compareReportSchema } = await import(join(root, 'dist/node/shared/engine/compare-report.js'));
 await build({
   entryPoints: [join(root, 'server/cli/compare.ts')],
+  define: { COMPARE_REPORT_JSON_SCHEMA: JSON.stringify(JSON.stringify(z.toJSONSchema(compareReportSchema))) },
   outfile: join(outdir, 'compare-bundle.cjs'),
   bundle: true,
   format: 'cjs',
