@@ -1,4 +1,5 @@
 import type { Snapshot } from '../../shared/api/snapshots.js';
+import { compactSvg } from './compact-svg.js';
 import { EXTRA_CODE_POINTS, PLEX_WIDTHS } from './plex-metrics.js';
 
 /**
@@ -52,8 +53,13 @@ function libraries() {
   return loaded;
 }
 
-/** One vega-lite spec as an SVG document string. */
+/** One vega-lite spec as an SVG document string, made compact (see compactSvg). */
 export async function chartSvg(spec: Record<string, unknown>, width = PUBLISHED_CHART_WIDTH): Promise<string> {
+  return compactSvg(await vegaSvg(spec, width));
+}
+
+/** One vega-lite spec as vega's SVG renderer writes it. */
+export async function vegaSvg(spec: Record<string, unknown>, width = PUBLISHED_CHART_WIDTH): Promise<string> {
   const { vega, compile, expr } = await libraries();
   const sized: Record<string, unknown> = { height: DEFAULT_HEIGHT, ...spec };
   if (sized['width'] === 'container' || sized['width'] === undefined) {

@@ -96,7 +96,7 @@ describe('a chart drawn on the server', () => {
     expect((few.match(/role="graphics-symbol" aria-roledescription="point"/g) ?? []).length).toBe(20);
     const many = await chartSvg(scatter(2000));
     expect((many.match(/role="graphics-symbol" aria-roledescription="point"/g) ?? []).length).toBe(0);
-    expect((many.match(/<path aria-hidden="true" transform=/g) ?? []).length).toBe(2000);
+    expect((/<g class="mark-symbol role-mark[^>]*>(.*?)<\/g>/.exec(many)![1]!.match(/<circle /g) ?? []).length).toBe(2000);
     expect(many).toContain("aria-label=\"X-axis titled 'Mean of both (W)'");
     expect(many).toContain('>Agreement</text>');
     // A container-wide chart gets the published page's width.
