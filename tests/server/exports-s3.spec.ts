@@ -1,10 +1,5 @@
 import { createHash } from 'node:crypto';
-import { mkdtempSync, rmSync } from 'node:fs';
-import { tmpdir } from 'node:os';
-import { join } from 'node:path';
-import { DeleteObjectCommand, GetObjectCommand, ListObjectsV2Command, S3Client } from '@aws-sdk/client-s3';
 import { sql } from 'drizzle-orm';
-import S3rver from 's3rver';
 import { afterAll, afterEach, beforeAll, beforeEach, describe, expect, it } from 'vitest';
 import { importResponseSchema } from '../../shared/api/exports.js';
 import { notebookExportSchema } from '../../shared/notebook/export-format.js';
@@ -14,27 +9,21 @@ import { useBlobStore, type BlobStore } from '../../server/storage/blob-store.js
 import { openBlobStore } from '../../server/storage/open-blob-store.js';
 import { fitBytes } from './helpers/fixtures.js';
 import { recipeDoc } from './helpers/recipe-notebook.js';
+import { startTestBucket, type TestBucket } from './helpers/s3-bucket.js';
 import { createTestApp, personalWorkspaceOf, signUp, type Agent, type TestApp } from './helpers/test-app.js';
 
 // Importing an export file with its recordings embedded, while uploads live in an
 // S3-compatible bucket: the recordings' bytes go to the bucket like any upload's, and
 // an import that fails leaves neither rows nor objects behind.
 
-// s3rver accepts requests signed with this pair.
-const CREDENTIALS = { AWS_ACCESS_KEY_ID: 'S3RVER', AWS_SECRET_ACCESS_KEY: 'S3RVER', AWS_SDK_JS_NODE_VERSION_SUPPORT_WARNING_DISABLED: 'true' };
 const BUCKET = 'cogbook-imports';
 const PREFIX = 'rides/';
 
-let s3dir: string;
-let s3: S3rver;
-let direct: S3Client;
+let s3: TestBucket;
 let bucket: BlobStore;
 let t: TestApp;
-const savedEnv: Record<string, string | undefined> = {};
 
 const sha = (bytes: Uint8Array) => createHash('sha256').update(bytes).digest('hex');
-const keys = async () => ((await direct.send(new ListObjectsV2Command({ Bucket: BUCKET }))).Contents ?? []).map((o) => o.Key!).sort();
-const objectBytes = async (key: string) => (await direct.send(new GetObjectCommand({ Bucket: BUCKET, Key: key }))).Body!.transformToByteArray();
 
 async function count(table: 'notebook' | 'notebook_revision' | 'upload' | 'upload_link'): Promise<number> {
   const res = await t.database.db.execute(sql.raw(`select count(*)::int as n from ${table}`));
@@ -61,35 +50,21 @@ function countingPuts(): { puts: string[] } {
 }
 
 beforeAll(async () => {
-  for (const [k, v] of Object.entries(CREDENTIALS)) {
-    savedEnv[k] = process.env[k];
-    process.env[k] = v;
-  }
-  s3dir = mkdtempSync(join(tmpdir(), 'cogbook-s3-import-'));
-  s3 = new S3rver({ address: '127.0.0.1', port: 0, silent: true, directory: s3dir, configureBuckets: [{ name: BUCKET }] });
-  const { port } = await s3.run();
-  const endpoint = `http://127.0.0.1:${port}`;
-  direct = new S3Client({ endpoint, region: 'us-east-1', forcePathStyle: true, credentials: { accessKeyId: 'S3RVER', secretAccessKey: 'S3RVER' } });
+  s3 = await startTestBucket(BUCKET);
   t = await createTestApp();
-  bucket = await openBlobStore(t.database.db, { bucket: BUCKET, endpoint, region: 'us-east-1', prefix: PREFIX });
+  bucket = await openBlobStore(t.database.db, { bucket: BUCKET, endpoint: s3.endpoint, region: 'us-east-1', prefix: PREFIX });
   expect(bucket.kind).toBe('s3');
 });
 
 afterAll(async () => {
   await t?.close();
-  direct?.destroy();
   await s3?.close();
-  rmSync(s3dir, { recursive: true, force: true });
-  for (const [k, v] of Object.entries(savedEnv)) {
-    if (v === undefined) delete process.env[k];
-    else process.env[k] = v;
-  }
 });
 
 /** Empties the database and the bucket, as on a server that has never seen these recordings. */
 async function emptyServer(): Promise<void> {
   await t.reset();
-  for (const key of await keys()) await direct.send(new DeleteObjectCommand({ Bucket: BUCKET, Key: key }));
+  await s3.empty();
   useBlobStore(t.database.db, bucket);
 }
 
@@ -131,8 +106,8 @@ describe('importing embedded recordings with a bucket configured', () => {
       ['test', false],
     ]);
     expect(seen.puts.sort()).toEqual(recorded.map(sha).sort());
-    expect(await keys()).toEqual(recorded.map((b) => `${PREFIX}${sha(b)}`).sort());
-    for (const bytes of recorded) expect(sha(await objectBytes(`${PREFIX}${sha(bytes)}`))).toBe(sha(bytes));
+    expect(await s3.keys()).toEqual(recorded.map((b) => `${PREFIX}${sha(b)}`).sort());
+    for (const bytes of recorded) expect(sha(await s3.object(`${PREFIX}${sha(bytes)}`))).toBe(sha(bytes));
     const rows = await t.database.db.select({ sha256: upload.sha256, bytes: upload.bytes, size: upload.size }).from(upload);
     expect(rows.sort((a, b) => a.sha256.localeCompare(b.sha256))).toEqual(
       recorded.map((b) => ({ sha256: sha(b), bytes: null, size: b.byteLength })).sort((a, b) => a.sha256.localeCompare(b.sha256)),
@@ -158,7 +133,7 @@ describe('importing embedded recordings with a bucket configured', () => {
       ['test', true],
     ]);
     expect(new Set(res.imported.recordings.map((r) => r.uploadId)).size).toBe(1);
-    expect(await keys()).toEqual([`${PREFIX}${sha(recorded[0]!)}`]);
+    expect(await s3.keys()).toEqual([`${PREFIX}${sha(recorded[0]!)}`]);
     expect(await counts()).toMatchObject({ notebook: 1, upload: 1, link: 1 });
   });
 
@@ -172,7 +147,7 @@ describe('importing embedded recordings with a bucket configured', () => {
       ['test', false],
     ]);
     expect(seen.puts).toEqual([sha(recorded[1]!)]);
-    expect(await keys()).toEqual(recorded.map((b) => `${PREFIX}${sha(b)}`).sort());
+    expect(await s3.keys()).toEqual(recorded.map((b) => `${PREFIX}${sha(b)}`).sort());
   });
 
   it('two imports of the same recordings at once both land, sharing one row and one object per recording', async () => {
@@ -184,7 +159,7 @@ describe('importing embedded recordings with a bucket configured', () => {
     const ids = results.map((r) => importResponseSchema.parse(r.body).imported.recordings.map((x) => x.uploadId).sort());
     expect(ids[0]).toEqual(ids[1]);
     expect(await counts()).toMatchObject({ notebook: 2, upload: 2, link: 2 });
-    expect(await keys()).toEqual(recorded.map((b) => `${PREFIX}${sha(b)}`).sort());
+    expect(await s3.keys()).toEqual(recorded.map((b) => `${PREFIX}${sha(b)}`).sort());
   });
 });
 
@@ -202,7 +177,7 @@ describe('a failed import with a bucket configured', () => {
     expect(res.body.error.message).toMatch(/crank\.fit.*sha256/);
     expect(seen.puts).toEqual([]);
     expect(await counts()).toEqual(before);
-    expect(await keys()).toEqual([]);
+    expect(await s3.keys()).toEqual([]);
   });
 
   it('a write refused inside the import’s transaction leaves no rows and removes the objects it put', async () => {
@@ -214,13 +189,13 @@ describe('a failed import with a bucket configured', () => {
     await importFile(agent, ws, exportFile).expect(500);
     expect(seen.puts.sort()).toEqual(recorded.map(sha).sort());
     expect(await counts()).toEqual(before);
-    expect(await keys()).toEqual([]);
+    expect(await s3.keys()).toEqual([]);
 
     // Nothing half-written is found the next time: both recordings are new again.
     await allowWrites();
     const res = importResponseSchema.parse((await importFile(agent, ws, exportFile).expect(201)).body);
     expect(res.imported.recordings.map((r) => r.duplicate)).toEqual([false, false]);
-    expect(await keys()).toEqual(recorded.map((b) => `${PREFIX}${sha(b)}`).sort());
+    expect(await s3.keys()).toEqual(recorded.map((b) => `${PREFIX}${sha(b)}`).sort());
   });
 
   it('keeps the row and object of a recording another upload stored, removing only the one it put', async () => {
@@ -233,8 +208,8 @@ describe('a failed import with a bucket configured', () => {
     expect(seen.puts).toEqual([sha(recorded[1]!)]);
     expect(await counts()).toEqual(before);
     expect(await t.database.db.select({ uploadId: uploadLink.uploadId }).from(uploadLink)).toEqual([{ uploadId: earlier }]);
-    expect(await keys()).toEqual([`${PREFIX}${sha(recorded[0]!)}`]);
-    expect(sha(await objectBytes(`${PREFIX}${sha(recorded[0]!)}`))).toBe(sha(recorded[0]!));
+    expect(await s3.keys()).toEqual([`${PREFIX}${sha(recorded[0]!)}`]);
+    expect(sha(await s3.object(`${PREFIX}${sha(recorded[0]!)}`))).toBe(sha(recorded[0]!));
   });
 });
 
@@ -245,6 +220,6 @@ describe('storing an upload', () => {
     const input = { sha256: sha(bytes), fileName: 'ride.fit', format: 'fit' as const, bytes, warnings: [], uploadedBy: userId, workspaceId: await personalWorkspaceOf(agent) };
     await expect(t.database.db.transaction((tx) => storeUpload(tx, input))).rejects.toThrow(/transaction/);
     expect(await count('upload')).toBe(0);
-    expect(await keys()).toEqual([]);
+    expect(await s3.keys()).toEqual([]);
   });
 });

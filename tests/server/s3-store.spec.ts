@@ -2,9 +2,8 @@ import { createHash } from 'node:crypto';
 import { mkdtempSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
-import { DeleteObjectCommand, GetObjectCommand, ListObjectsV2Command, S3Client } from '@aws-sdk/client-s3';
+import { DeleteObjectCommand } from '@aws-sdk/client-s3';
 import { eq } from 'drizzle-orm';
-import S3rver from 's3rver';
 import { afterAll, beforeAll, beforeEach, describe, expect, it } from 'vitest';
 import { runResponseSchema } from '../../shared/api/runs.js';
 import { upload } from '../../server/db/schema.js';
@@ -12,22 +11,18 @@ import { openBlobStore } from '../../server/storage/open-blob-store.js';
 import type { S3Settings } from '../../server/storage/s3-store.js';
 import { fitBytes } from './helpers/fixtures.js';
 import { recipeDoc } from './helpers/recipe-notebook.js';
+import { S3RVER_CREDENTIALS, startTestBucket, type TestBucket } from './helpers/s3-bucket.js';
 import { freePort, runToExit } from './helpers/spawn-server.js';
 import { createTestApp, personalWorkspaceOf, signUp, type Agent, type TestApp } from './helpers/test-app.js';
 
-// s3rver accepts requests signed with this pair.
-const CREDENTIALS = { AWS_ACCESS_KEY_ID: 'S3RVER', AWS_SECRET_ACCESS_KEY: 'S3RVER', AWS_SDK_JS_NODE_VERSION_SUPPORT_WARNING_DISABLED: 'true' };
 const BUCKET = 'cogbook-uploads';
 
-let s3dir: string;
-let s3: S3rver;
+let s3: TestBucket;
 let endpoint: string;
 let settings: S3Settings;
-let direct: S3Client;
 let t: TestApp;
 let analyst: Agent;
 let workspaceId: string;
-const savedEnv: Record<string, string | undefined> = {};
 const scratch: string[] = [];
 const scratchDir = () => {
   const dir = mkdtempSync(join(tmpdir(), 'cogbook-s3-start-'));
@@ -36,36 +31,23 @@ const scratchDir = () => {
 };
 
 const sha = (bytes: Uint8Array) => createHash('sha256').update(bytes).digest('hex');
-const keys = async () => ((await direct.send(new ListObjectsV2Command({ Bucket: BUCKET }))).Contents ?? []).map((o) => o.Key);
 
 beforeAll(async () => {
-  for (const [k, v] of Object.entries(CREDENTIALS)) {
-    savedEnv[k] = process.env[k];
-    process.env[k] = v;
-  }
-  s3dir = mkdtempSync(join(tmpdir(), 'cogbook-s3-'));
-  s3 = new S3rver({ address: '127.0.0.1', port: 0, silent: true, directory: s3dir, configureBuckets: [{ name: BUCKET }] });
-  const { port } = await s3.run();
-  endpoint = `http://127.0.0.1:${port}`;
+  s3 = await startTestBucket(BUCKET);
+  endpoint = s3.endpoint;
   settings = { bucket: BUCKET, endpoint, region: 'us-east-1', prefix: 'rides/' };
-  direct = new S3Client({ endpoint, region: 'us-east-1', forcePathStyle: true, credentials: { accessKeyId: 'S3RVER', secretAccessKey: 'S3RVER' } });
   t = await createTestApp();
   const store = await openBlobStore(t.database.db, settings);
   expect(store.kind).toBe('s3');
 });
 afterAll(async () => {
   await t?.close();
-  direct?.destroy();
   await s3?.close();
-  for (const dir of [s3dir, ...scratch]) rmSync(dir, { recursive: true, force: true });
-  for (const [k, v] of Object.entries(savedEnv)) {
-    if (v === undefined) delete process.env[k];
-    else process.env[k] = v;
-  }
+  for (const dir of scratch) rmSync(dir, { recursive: true, force: true });
 });
 beforeEach(async () => {
   await t.reset();
-  for (const key of await keys()) await direct.send(new DeleteObjectCommand({ Bucket: BUCKET, Key: key }));
+  await s3.empty();
   analyst = (await signUp(t, 'analyst@lab.test')).agent;
   workspaceId = await personalWorkspaceOf(analyst);
 });
@@ -80,8 +62,8 @@ describe('uploads in an S3-compatible bucket', () => {
     const res = await post(bytes, 'reference.fit');
     const meta = res.body.uploads[0];
     expect(meta).toMatchObject({ sha256: sha(bytes), size: bytes.byteLength, format: 'fit', duplicate: false });
-    expect(await keys()).toEqual([`rides/${sha(bytes)}`]);
-    const stored = await (await direct.send(new GetObjectCommand({ Bucket: BUCKET, Key: `rides/${sha(bytes)}` }))).Body!.transformToByteArray();
+    expect(await s3.keys()).toEqual([`rides/${sha(bytes)}`]);
+    const stored = await s3.object(`rides/${sha(bytes)}`);
     expect(Buffer.from(stored).equals(Buffer.from(bytes))).toBe(true);
     const [row] = await t.database.db.select({ bytes: upload.bytes, size: upload.size }).from(upload).where(eq(upload.id, meta.id));
     expect(row).toEqual({ bytes: null, size: bytes.byteLength });
@@ -95,7 +77,7 @@ describe('uploads in an S3-compatible bucket', () => {
     const fromOther = (await post(bytes, 'theirs.fit', other.agent, await personalWorkspaceOf(other.agent))).body.uploads[0];
     expect(again).toMatchObject({ id: first.id, duplicate: true });
     expect(fromOther).toMatchObject({ id: first.id, duplicate: true });
-    expect(await keys()).toEqual([`rides/${sha(bytes)}`]);
+    expect(await s3.keys()).toEqual([`rides/${sha(bytes)}`]);
     expect(await t.database.db.select({ id: upload.id }).from(upload)).toHaveLength(1);
   });
 
@@ -127,7 +109,7 @@ describe('uploads in an S3-compatible bucket', () => {
   it('a missing object answers an error, not someone else’s bytes', async () => {
     const bytes = fitBytes(12, 150);
     const id = (await post(bytes, 'gone.fit')).body.uploads[0].id;
-    await direct.send(new DeleteObjectCommand({ Bucket: BUCKET, Key: `rides/${sha(bytes)}` }));
+    await s3.client.send(new DeleteObjectCommand({ Bucket: BUCKET, Key: `rides/${sha(bytes)}` }));
     await analyst.get(`/api/uploads/${id}/content`).expect(404);
   });
 });
@@ -135,7 +117,7 @@ describe('uploads in an S3-compatible bucket', () => {
 describe('start-up with an object store', () => {
   it('refuses to start, in one line, when the bucket does not exist', async () => {
     const { code, output } = await runToExit({
-      ...CREDENTIALS,
+      ...S3RVER_CREDENTIALS,
       DATA_DIR: scratchDir(),
       PORT: String(await freePort()),
       SEED_DEMO: '0',
@@ -149,7 +131,7 @@ describe('start-up with an object store', () => {
 
   it('refuses to start when nothing answers at the endpoint', async () => {
     const { code, output } = await runToExit({
-      ...CREDENTIALS,
+      ...S3RVER_CREDENTIALS,
       DATA_DIR: scratchDir(),
       PORT: String(await freePort()),
       SEED_DEMO: '0',

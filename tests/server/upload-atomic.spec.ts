@@ -1,36 +1,27 @@
 import { createHash } from 'node:crypto';
-import { mkdtempSync, rmSync } from 'node:fs';
-import { tmpdir } from 'node:os';
-import { join } from 'node:path';
-import { DeleteObjectCommand, GetObjectCommand, ListObjectsV2Command, S3Client } from '@aws-sdk/client-s3';
 import { eq, sql } from 'drizzle-orm';
-import S3rver from 's3rver';
 import { afterAll, afterEach, beforeAll, beforeEach, describe, expect, it } from 'vitest';
 import { storeUpload } from '../../server/db/repositories/uploads.js';
 import { upload, uploadLink, user, workspace } from '../../server/db/schema.js';
 import { useBlobStore, type BlobStore } from '../../server/storage/blob-store.js';
 import { bindBlobStore, openObjectStore } from '../../server/storage/open-blob-store.js';
 import { fitBytes } from './helpers/fixtures.js';
+import { startTestBucket, type TestBucket } from './helpers/s3-bucket.js';
 import { createTestApp, personalWorkspaceOf, signUp, type TestApp } from './helpers/test-app.js';
 
 // An upload is two writes: the upload row (metadata, and the bytes with the database store)
 // and its workspace link, plus the object itself with a bucket. A failure in any of them
 // must leave nothing behind: no row, no link, no object.
 
-const CREDENTIALS = { AWS_ACCESS_KEY_ID: 'S3RVER', AWS_SECRET_ACCESS_KEY: 'S3RVER', AWS_SDK_JS_NODE_VERSION_SUPPORT_WARNING_DISABLED: 'true' };
 const BUCKET = 'cogbook-atomic';
 
 let t: TestApp;
-let s3dir: string;
-let s3: S3rver;
-let direct: S3Client;
+let s3: TestBucket;
 let bucket: BlobStore;
 let ws1: string;
 let ws2: string;
-const savedEnv: Record<string, string | undefined> = {};
 
 const sha = (bytes: Uint8Array) => createHash('sha256').update(bytes).digest('hex');
-const keys = async () => ((await direct.send(new ListObjectsV2Command({ Bucket: BUCKET }))).Contents ?? []).map((o) => o.Key);
 const rows = () => t.database.db.select({ id: upload.id, sha256: upload.sha256 }).from(upload);
 const links = () => t.database.db.select({ uploadId: uploadLink.uploadId, workspaceId: uploadLink.workspaceId }).from(uploadLink);
 const input = (bytes: Uint8Array, workspaceId = ws1) => ({ sha256: sha(bytes), fileName: 'ride.fit', format: 'fit' as const, bytes, warnings: [], uploadedBy: 'u1', workspaceId });
@@ -53,33 +44,19 @@ async function allowWrites(): Promise<void> {
 }
 
 beforeAll(async () => {
-  for (const [k, v] of Object.entries(CREDENTIALS)) {
-    savedEnv[k] = process.env[k];
-    process.env[k] = v;
-  }
-  s3dir = mkdtempSync(join(tmpdir(), 'cogbook-s3-atomic-'));
-  s3 = new S3rver({ address: '127.0.0.1', port: 0, silent: true, directory: s3dir, configureBuckets: [{ name: BUCKET }] });
-  const { port } = await s3.run();
-  const endpoint = `http://127.0.0.1:${port}`;
-  direct = new S3Client({ endpoint, region: 'us-east-1', forcePathStyle: true, credentials: { accessKeyId: 'S3RVER', secretAccessKey: 'S3RVER' } });
-  bucket = (await openObjectStore({ bucket: BUCKET, endpoint, region: 'us-east-1', prefix: '' }))!;
+  s3 = await startTestBucket(BUCKET);
+  bucket = (await openObjectStore({ bucket: BUCKET, endpoint: s3.endpoint, region: 'us-east-1', prefix: '' }))!;
   t = await createTestApp();
 });
 
 afterAll(async () => {
   await t?.close();
-  direct?.destroy();
   await s3?.close();
-  rmSync(s3dir, { recursive: true, force: true });
-  for (const [k, v] of Object.entries(savedEnv)) {
-    if (v === undefined) delete process.env[k];
-    else process.env[k] = v;
-  }
 });
 
 beforeEach(async () => {
   await t.reset();
-  for (const key of await keys()) await direct.send(new DeleteObjectCommand({ Bucket: BUCKET, Key: key }));
+  await s3.empty();
   await t.database.db.insert(user).values({ id: 'u1', name: 'Lab analyst', email: 'a@lab.test' });
   [ws1, ws2] = (await t.database.db.insert(workspace).values([{ name: 'Bench' }, { name: 'Road' }]).returning({ id: workspace.id })).map((w) => w.id);
 });
@@ -127,7 +104,7 @@ describe('with the bytes in an S3-compatible bucket', () => {
     expect(await refusal(storeUpload(t.database.db, input(bytes)))).toMatch(/write to upload_link refused by the test/);
     expect(await rows()).toEqual([]);
     expect(await links()).toEqual([]);
-    expect(await keys()).toEqual([]);
+    expect(await s3.keys()).toEqual([]);
   });
 
   it('a failed row write removes the object put just before', async () => {
@@ -135,7 +112,7 @@ describe('with the bytes in an S3-compatible bucket', () => {
     await refuseWritesTo('upload');
     expect(await refusal(storeUpload(t.database.db, input(bytes)))).toMatch(/write to upload refused by the test/);
     expect(await rows()).toEqual([]);
-    expect(await keys()).toEqual([]);
+    expect(await s3.keys()).toEqual([]);
   });
 
   it('a failed second upload of stored bytes keeps the first one’s row and object', async () => {
@@ -145,7 +122,7 @@ describe('with the bytes in an S3-compatible bucket', () => {
     expect(await refusal(storeUpload(t.database.db, input(bytes, ws2)))).toMatch(/refused by the test/);
     expect(await rows()).toEqual([{ id: first.record.id, sha256: sha(bytes) }]);
     expect(await links()).toEqual([{ uploadId: first.record.id, workspaceId: ws1 }]);
-    expect(await keys()).toEqual([sha(bytes)]);
+    expect(await s3.keys()).toEqual([sha(bytes)]);
   });
 
   it('a new row is written only with its object in place, even if the object went missing after the put', async () => {
@@ -156,7 +133,7 @@ describe('with the bytes in an S3-compatible bucket', () => {
     const stored = await storeUpload(t.database.db, input(bytes));
     expect(puts).toBe(2);
     expect(stored.duplicate).toBe(false);
-    const body = await (await direct.send(new GetObjectCommand({ Bucket: BUCKET, Key: sha(bytes) }))).Body!.transformToByteArray();
+    const body = await s3.object(sha(bytes));
     expect(sha(body)).toBe(sha(bytes));
   });
 
@@ -168,6 +145,6 @@ describe('with the bytes in an S3-compatible bucket', () => {
     const [row] = await t.database.db.select({ bytes: upload.bytes }).from(upload).where(eq(upload.sha256, sha(bytes)));
     expect(row).toEqual({ bytes: null });
     expect((await links()).map((l) => l.workspaceId).sort()).toEqual([ws1, ws2].sort());
-    expect(await keys()).toEqual([sha(bytes)]);
+    expect(await s3.keys()).toEqual([sha(bytes)]);
   });
 });

@@ -3,9 +3,8 @@ import { createHash } from 'node:crypto';
 import { cpSync, mkdtempSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
-import { GetObjectCommand, ListObjectsV2Command, PutObjectCommand, S3Client } from '@aws-sdk/client-s3';
+import { PutObjectCommand } from '@aws-sdk/client-s3';
 import { eq, sql } from 'drizzle-orm';
-import S3rver from 's3rver';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { openDatabase, pgliteDirOf, type Database } from '../../../server/db/client.js';
 import { acquireDataDirLock } from '../../../server/db/data-lock.js';
@@ -13,13 +12,13 @@ import { readUploadBytes, storeUpload } from '../../../server/db/repositories/up
 import { upload, user, workspace } from '../../../server/db/schema.js';
 import { openBlobStore } from '../../../server/storage/open-blob-store.js';
 import { fitBytes } from '../helpers/fixtures.js';
+import { S3RVER_CREDENTIALS, startTestBucket, type TestBucket } from '../helpers/s3-bucket.js';
 import { ROOT_DIR } from '../helpers/test-app.js';
 
 // `npm run uploads:to-bucket` on an embedded database with uploads kept in their rows, moving
 // them into a bucket on s3rver: every object is checked before a row's copy is cleared, a run
 // stopped half-way is finished by the next one, and a second run finds nothing to do.
 
-const CREDENTIALS = { AWS_ACCESS_KEY_ID: 'S3RVER', AWS_SECRET_ACCESS_KEY: 'S3RVER', AWS_SDK_JS_NODE_VERSION_SUPPORT_WARNING_DISABLED: 'true' };
 const BUCKET = 'cogbook-moved';
 const PREFIX = 'uploads/';
 const MIGRATIONS = join(ROOT_DIR, 'drizzle');
@@ -30,18 +29,14 @@ interface Run {
   stderr: string;
 }
 
-let s3dir: string;
-let s3: S3rver;
+let s3: TestBucket;
 let endpoint: string;
-let direct: S3Client;
 /** A migrated embedded database with an account and a workspace, copied for each test (creating one costs seconds). */
 let template: string;
 let workspaceId: string;
 const scratch: string[] = [];
 
 const sha = (bytes: Uint8Array) => createHash('sha256').update(bytes).digest('hex');
-const keys = async () => ((await direct.send(new ListObjectsV2Command({ Bucket: BUCKET }))).Contents ?? []).map((o) => o.Key).sort();
-const object = async (key: string) => (await direct.send(new GetObjectCommand({ Bucket: BUCKET, Key: key }))).Body!.transformToByteArray();
 
 function runMove(dataDir: string, args: string[] = [], env: Record<string, string> = {}): Promise<Run> {
   return new Promise((resolve) => {
@@ -51,7 +46,7 @@ function runMove(dataDir: string, args: string[] = [], env: Record<string, strin
       {
         cwd: ROOT_DIR,
         timeout: 120_000,
-        env: { ...process.env, ...CREDENTIALS, DATABASE_URL: '', DATA_DIR: dataDir, COGBOOK_S3_BUCKET: BUCKET, COGBOOK_S3_ENDPOINT: endpoint, COGBOOK_S3_PREFIX: PREFIX, ...env },
+        env: { ...process.env, ...S3RVER_CREDENTIALS, DATABASE_URL: '', DATA_DIR: dataDir, COGBOOK_S3_BUCKET: BUCKET, COGBOOK_S3_ENDPOINT: endpoint, COGBOOK_S3_PREFIX: PREFIX, ...env },
       },
       (error, stdout, stderr) => resolve({ code: error === null ? 0 : typeof error.code === 'number' ? error.code : -1, stdout, stderr }),
     );
@@ -88,12 +83,8 @@ const heldIds = (database: Database) =>
   database.db.select({ id: upload.id }).from(upload).where(sql`${upload.bytes} is not null`).then((rows) => rows.map((r) => r.id).sort());
 
 beforeAll(async () => {
-  for (const [k, v] of Object.entries(CREDENTIALS)) process.env[k] ??= v;
-  s3dir = mkdtempSync(join(tmpdir(), 'cogbook-s3-move-'));
-  s3 = new S3rver({ address: '127.0.0.1', port: 0, silent: true, directory: s3dir, configureBuckets: [{ name: BUCKET }] });
-  const { port } = await s3.run();
-  endpoint = `http://127.0.0.1:${port}`;
-  direct = new S3Client({ endpoint, region: 'us-east-1', forcePathStyle: true, credentials: { accessKeyId: 'S3RVER', secretAccessKey: 'S3RVER' } });
+  s3 = await startTestBucket(BUCKET);
+  endpoint = s3.endpoint;
   template = mkdtempSync(join(tmpdir(), 'cogbook-move-template-'));
   scratch.push(template);
   const database = await openDatabase({ pgliteDir: pgliteDirOf(template), migrationsFolder: MIGRATIONS });
@@ -106,9 +97,8 @@ beforeAll(async () => {
 });
 
 afterAll(async () => {
-  direct?.destroy();
   await s3?.close();
-  for (const dir of [s3dir, ...scratch]) rmSync(dir, { recursive: true, force: true });
+  for (const dir of scratch) rmSync(dir, { recursive: true, force: true });
 });
 
 describe('uploads:to-bucket', () => {
@@ -120,7 +110,7 @@ describe('uploads:to-bucket', () => {
     expect(dry.stderr).toBe('');
     expect(dry.code).toBe(0);
     expect(dry.stdout).toContain('would move: 3 (');
-    expect(await keys()).toEqual([]);
+    expect(await s3.keys()).toEqual([]);
     expect(await withDatabase(dataDir, heldIds)).toEqual([...ids].sort());
 
     const first = await runMove(dataDir);
@@ -130,8 +120,8 @@ describe('uploads:to-bucket', () => {
     expect(first.stdout).toContain('moved: 3 (');
     expect(first.stdout).toContain('already in the bucket, checked: 0; failed: 0');
     expect(first.stdout).toContain('after: 0 in the database, 3 in the bucket');
-    expect(await keys()).toEqual(files.map((f) => `${PREFIX}${sha(f)}`).sort());
-    for (const f of files) expect(sha(await object(`${PREFIX}${sha(f)}`))).toBe(sha(f));
+    expect(await s3.keys()).toEqual(files.map((f) => `${PREFIX}${sha(f)}`).sort());
+    for (const f of files) expect(sha(await s3.object(`${PREFIX}${sha(f)}`))).toBe(sha(f));
 
     // The app reads each upload from the bucket now, byte for byte.
     await withDatabase(dataDir, async (database) => {
@@ -152,8 +142,8 @@ describe('uploads:to-bucket', () => {
     const untouched = fitBytes(16, 200);
     const { dataDir } = await dataDirWith([whole, cut, untouched]);
     // As a stopped run leaves it: one object put but its row not yet cleared, one cut short.
-    await direct.send(new PutObjectCommand({ Bucket: BUCKET, Key: `${PREFIX}${sha(whole)}`, Body: whole }));
-    await direct.send(new PutObjectCommand({ Bucket: BUCKET, Key: `${PREFIX}${sha(cut)}`, Body: cut.subarray(0, 40) }));
+    await s3.client.send(new PutObjectCommand({ Bucket: BUCKET, Key: `${PREFIX}${sha(whole)}`, Body: whole }));
+    await s3.client.send(new PutObjectCommand({ Bucket: BUCKET, Key: `${PREFIX}${sha(cut)}`, Body: cut.subarray(0, 40) }));
 
     const run = await runMove(dataDir);
     expect(run.stderr).toBe('');
@@ -161,7 +151,7 @@ describe('uploads:to-bucket', () => {
     expect(run.stdout).toContain('moved: 2 (');
     expect(run.stdout).toContain('already in the bucket, checked: 1; failed: 0');
     expect(run.stdout).toContain('after: 0 in the database, 3 in the bucket');
-    for (const f of [whole, cut, untouched]) expect(sha(await object(`${PREFIX}${sha(f)}`))).toBe(sha(f));
+    for (const f of [whole, cut, untouched]) expect(sha(await s3.object(`${PREFIX}${sha(f)}`))).toBe(sha(f));
   }, 180_000);
 
   it('leaves an upload whose database copy does not match its sha256 where it is, names it and exits 1', async () => {
@@ -178,8 +168,8 @@ describe('uploads:to-bucket', () => {
     expect(run.stdout).toContain('moved: 1 (');
     expect(run.stdout).toContain('failed: 1');
     expect(run.stdout).toContain('after: 1 in the database');
-    expect(await keys()).not.toContain(`${PREFIX}${sha(bad)}`);
-    expect(await keys()).toContain(`${PREFIX}${sha(good)}`);
+    expect(await s3.keys()).not.toContain(`${PREFIX}${sha(bad)}`);
+    expect(await s3.keys()).toContain(`${PREFIX}${sha(good)}`);
     expect(await withDatabase(dataDir, heldIds)).toEqual([ids[1]]);
   }, 180_000);
 
