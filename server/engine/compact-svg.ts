@@ -7,7 +7,10 @@
  * - a round point (vega's circle symbol, a path moved into place) becomes a `<circle>`;
  * - marks that are the very same drawing, one right over the other, are kept
  *   {@link MOST_COPIES} times: past that many copies a pixel no longer changes.
- * Titles, text and the labels screen readers read (aria-*) are kept as they are.
+ * Titles, text and the labels screen readers read (aria-*) are kept as they are, but for one
+ * thing: a group of marks vega calls a symbol without giving it a name (a layer drawn from
+ * constants alone, such as a zero line or a shaded band) is hidden from screen readers, which
+ * would otherwise announce an unnamed picture.
  */
 
 /** Decimals kept in coordinates: positions move by at most 0.005 px. */
@@ -148,6 +151,10 @@ function get(e: Element, name: string): string | undefined {
  */
 function compactElement(e: Element, inherited: Map<string, string>): void {
   for (const a of e.attrs) if (GEOMETRY.has(a[0])) a[1] = roundNumbers(a[1]);
+  if (e.name === 'g' && get(e, 'role') === 'graphics-symbol' && get(e, 'aria-label') === undefined && get(e, 'aria-labelledby') === undefined) {
+    e.attrs = e.attrs.filter(([k]) => k !== 'role' && k !== 'aria-roledescription');
+    e.attrs.push(['aria-hidden', 'true']);
+  }
   const own = new Map(inherited);
   for (const [k, v] of e.attrs) if (INHERITED.has(k)) own.set(k, v);
   if (e.name === 'g') {

@@ -86,3 +86,24 @@ describe('compact chart drawings', () => {
     }
   });
 });
+
+describe('what screen readers get from a compact drawing', () => {
+  it('hides a group vega calls a symbol but leaves unnamed (a layer drawn from constants, such as a zero line), and keeps every named one', async () => {
+    const spec = {
+      width: 'container',
+      data: { values: [{ gear: '34T', diff: 1.5 }, { gear: '50T', diff: -0.5 }] },
+      layer: [
+        { mark: { type: 'rule', color: '#666666' }, encoding: { y: { datum: 0 } } },
+        { mark: 'bar', encoding: { x: { field: 'gear', type: 'nominal' }, y: { field: 'diff', type: 'quantitative' } } },
+      ],
+    };
+    const raw = await vegaSvg(spec);
+    // What vega writes: a container announced as a symbol, with no name.
+    expect(raw).toMatch(/<g class="mark-rule role-mark[^"]*" role="graphics-symbol" aria-roledescription="rule mark container">/);
+    const drawn = await chartSvg(spec);
+    expect(drawn).toMatch(/<g class="mark-rule role-mark[^"]*" aria-hidden="true"/);
+    expect(drawn).not.toMatch(/<g(?![^>]*aria-label)[^>]*role="graphics-symbol"/);
+    // The bars keep their names.
+    expect((drawn.match(/role="graphics-symbol" aria-roledescription="bar"/g) ?? []).length).toBe(2);
+  });
+});
