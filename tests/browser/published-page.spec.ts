@@ -139,6 +139,27 @@ describe('a signed-out reader on the published page', () => {
     }
   });
 
+  it('has nothing axe finds serious, server drawings included, and lays out a drawing only when near the screen', { timeout: 120_000 }, async () => {
+    const w = await watchedPage(browser, { width: 1280, height: 860 });
+    try {
+      await w.page.goto(`${server.url}/p/${slug}`);
+      await w.page.waitForFunction(() => !!(document.getElementById('app') as { __vue_app__?: unknown } | null)?.__vue_app__);
+      expect(await w.page.locator('.chart-view__canvas svg.marks').count()).toBeGreaterThan(0);
+      // axe goes in through the DevTools protocol, which the page's policy does not govern.
+      await w.page.evaluate(readFileSync('node_modules/axe-core/axe.min.js', 'utf8'));
+      const findings = await w.page.evaluate<{ id: string; impact: string | null; targets: string[] }[]>(
+        `axe.run(document, { resultTypes: ['violations'] }).then((r) => r.violations.map((v) => ({ id: v.id, impact: v.impact, targets: v.nodes.map((n) => n.target.join(' ')) })))`,
+      );
+      expect(findings.filter((f) => f.impact === 'serious' || f.impact === 'critical')).toEqual([]);
+      expect(await w.page.locator('.chart-view__canvas').evaluateAll((els) => els.map((e) => getComputedStyle(e).contentVisibility))).toEqual(
+        Array.from({ length: await w.page.locator('.chart-view__canvas').count() }, () => 'auto'),
+      );
+      expect(w.problems).toEqual([]);
+    } finally {
+      await w.context.close();
+    }
+  });
+
   it('prints on A4 with the charts scaled to the paper and no page chrome', { timeout: 120_000 }, async () => {
     const w = await watchedPage(browser, { width: 1280, height: 860 });
     try {
@@ -149,11 +170,14 @@ describe('a signed-out reader on the published page', () => {
       await w.page.setViewportSize({ width: 673, height: 950 });
       const layout = await w.page.evaluate(() => ({
         chrome: [...document.querySelectorAll('.published__bar, .chart-view__actions, .snapshot__toc')].map((e) => getComputedStyle(e).display),
+        // On screen a drawing far down the page waits to be drawn until scrolled to; on paper every one is drawn.
+        skipped: [...document.querySelectorAll('.chart-view__canvas')].map((e) => getComputedStyle(e).contentVisibility),
         charts: [...document.querySelectorAll('.chart-view__canvas svg.marks')].map((s) => [s.getBoundingClientRect().width, s.closest('.chart-view')!.getBoundingClientRect().width]),
       }));
       expect(layout.chrome.length).toBeGreaterThan(1);
       expect(layout.chrome.every((d) => d === 'none')).toBe(true);
       expect(layout.charts.length).toBeGreaterThan(0);
+      expect(layout.skipped).toEqual(layout.charts.map(() => 'visible'));
       for (const [svg, frame] of layout.charts) {
         expect(svg).toBeGreaterThan(300);
         expect(svg).toBeLessThanOrEqual(frame! + 0.5);
