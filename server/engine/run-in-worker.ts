@@ -1,6 +1,8 @@
 import { availableParallelism } from 'node:os';
 import { fileURLToPath } from 'node:url';
+import type { Snapshot } from '../../shared/api/snapshots.js';
 import type { ComputeJob, ComputeOutcome } from './compute-notebook.js';
+import type { DrawJob } from './notebook-worker.js';
 import { WorkerPool, WorkerTimeLimitError } from './worker-pool.js';
 
 /** Longest a whole headless computation may take before its thread is stopped. */
@@ -10,7 +12,7 @@ export const JOB_TIME_LIMIT_MS = 5 * 60_000;
 export const DEFAULT_COMPUTE_THREADS = Math.min(2, availableParallelism());
 
 // One pool per process, made on the first job so a server that never computes starts no threads.
-let pool: WorkerPool<ComputeJob, ComputeOutcome> | undefined;
+let pool: WorkerPool<ComputeJob | DrawJob, ComputeOutcome> | undefined;
 let poolSize = DEFAULT_COMPUTE_THREADS;
 
 /** Sets the compute pool's size (the server's WORKER_THREADS); takes effect when the pool is made. */
@@ -30,11 +32,7 @@ export async function computeInWorker(job: ComputeJob, timeLimitMs = JOB_TIME_LI
     const { default: computeJob } = await import('./notebook-worker.js');
     return computeJob(job);
   }
-  pool ??= new WorkerPool<ComputeJob, ComputeOutcome>({
-    filename: new URL('./notebook-worker.js', import.meta.url),
-    size: poolSize,
-    timeLimitMs: JOB_TIME_LIMIT_MS,
-  });
+  pool ??= newPool();
   // Own copies of the bytes, so they can be moved to the thread without detaching a buffer the caller (or the driver) still uses.
   const inputs = job.inputs.map((i) => ({ ...i, bytes: i.bytes.slice() }));
   try {
@@ -45,5 +43,32 @@ export async function computeInWorker(job: ComputeJob, timeLimitMs = JOB_TIME_LI
     }
     const message = error instanceof Error ? error.message : String(error);
     return { ok: false, error: { code: 'engine_failed', message: `The computing thread stopped: ${message}` } };
+  }
+}
+
+function newPool(): WorkerPool<ComputeJob | DrawJob, ComputeOutcome> {
+  return new WorkerPool<ComputeJob | DrawJob, ComputeOutcome>({
+    filename: new URL('./notebook-worker.js', import.meta.url),
+    size: poolSize,
+    timeLimitMs: JOB_TIME_LIMIT_MS,
+  });
+}
+
+/**
+ * Draws the charts of a stored snapshot as SVG (drawSnapshotCharts) on the compute pool, so
+ * vega never runs on the thread that serves requests; answers the drawn copy. Under
+ * TypeScript sources it runs in-process, as computeInWorker does.
+ */
+export async function drawChartsInWorker(snapshot: Snapshot, timeLimitMs = JOB_TIME_LIMIT_MS): Promise<ComputeOutcome> {
+  if (fileURLToPath(import.meta.url).endsWith('.ts')) {
+    const { default: computeJob } = await import('./notebook-worker.js');
+    return computeJob({ drawSnapshot: structuredClone(snapshot) });
+  }
+  pool ??= newPool();
+  try {
+    return await pool.run({ drawSnapshot: snapshot }, { timeLimitMs });
+  } catch (error) {
+    const message = error instanceof Error ? error.message : String(error);
+    return { ok: false, error: { code: error instanceof WorkerTimeLimitError ? 'time_limit' : 'engine_failed', message } };
   }
 }

@@ -4,10 +4,10 @@ import { pathToFileURL } from 'node:url';
 import { Router } from 'express';
 import type { PublishedNotebookResponse } from '../../shared/api/publications.js';
 import { publicationSlugParamsSchema } from '../../shared/api/publications.js';
-import type { Snapshot } from '../../shared/api/snapshots.js';
 import type { Db } from '../db/client.js';
 import { findPublicationBySlug, findPublicationOfNotebook, type PublicationRecord } from '../db/repositories/publications.js';
 import { findUploadBySha } from '../db/repositories/uploads.js';
+import { withDrawings } from '../services/published-drawings.js';
 import { revisionDocument } from '../services/snapshot.js';
 
 /** The server's render of the published page (src/published-ssr.ts, built into dist/ssr). */
@@ -150,7 +150,7 @@ function stampOf(row: PublicationRecord): string {
 export async function readPublishedForPage(db: Db, slug: string): Promise<PublishedPageSource | undefined> {
   const found = await findPublicationBySlug(db, slug);
   if (!found) return undefined;
-  const snapshot = found.snapshot as Snapshot;
+  const snapshot = await withDrawings(db, found);
   const document = await revisionDocument(db, found.notebookId, found.revision);
   let files: PublishedNotebookResponse['files'] = null;
   if (found.allowDownloads) {

@@ -6,6 +6,7 @@ import type { Database, Db } from '../db/client.js';
 import * as repo from '../db/repositories/publications.js';
 import { findUploadBySha } from '../db/repositories/uploads.js';
 import { notFound } from '../errors.js';
+import { withDrawings } from './published-drawings.js';
 import { revisionDocument } from './snapshot.js';
 
 /** Content codings a page is kept in besides plain JSON. */
@@ -161,7 +162,8 @@ export class PublishedPageCache {
         this.drop(slug);
         throw notFound('Publication');
       }
-      const snapshot = found.snapshot as Snapshot;
+      // A publication from before charts were drawn on the server gets its drawings on this first read.
+      const snapshot = await withDrawings(db, found);
       const document = await revisionDocument(db, found.notebookId, found.revision);
       const snapshotJson = JSON.stringify(snapshot);
       const files = await publishedFiles(db, snapshot);

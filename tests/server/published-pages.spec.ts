@@ -2,9 +2,12 @@ import { request, type IncomingHttpHeaders } from 'node:http';
 import type { AddressInfo } from 'node:net';
 import { brotliDecompressSync, gunzipSync } from 'node:zlib';
 import type { Express } from 'express';
+import supertest from 'supertest';
 import { afterAll, beforeAll, beforeEach, describe, expect, it } from 'vitest';
 import type { Db } from '../../server/db/client.js';
-import { deletePublication, findPublicationBySlug, upsertPublication } from '../../server/db/repositories/publications.js';
+import { deletePublication, findPublicationBySlug, replacePublicationSnapshot, upsertPublication } from '../../server/db/repositories/publications.js';
+import { readPublishedForPage } from '../../server/routes/publications-page.js';
+import { missesDrawings, withDrawings } from '../../server/services/published-drawings.js';
 import { PGLITE_TRUST_MS, PublishedPageCache, publishedPagesOf } from '../../server/services/published-pages.js';
 import { publishedNotebookResponseSchema, type PublishedNotebookResponse } from '../../shared/api/publications.js';
 import type { Snapshot } from '../../shared/api/snapshots.js';
@@ -151,6 +154,58 @@ describe('the kept snapshot', () => {
     expect(parsePage(renamed.body).revision).toBe(1);
     expect(renamed.etag).not.toBe(first.etag);
     expect(cache.stats.fills).toBe(1);
+  });
+});
+
+describe('a publication from before charts were drawn on the server', () => {
+  /** Takes the drawings out of the stored publication, as publishing did before it drew them. */
+  async function undraw(): Promise<Snapshot> {
+    const row = (await findPublicationBySlug(t.database.db, slug))!;
+    const snapshot = structuredClone(row.snapshot) as Snapshot;
+    for (const c of snapshot.cells) if (c.result?.type === 'chart') delete c.result.svg;
+    expect(await replacePublicationSnapshot(t.database.db, row.notebookId, row.publishedAt, snapshot)).toBe(true);
+    expect(missesDrawings((await findPublicationBySlug(t.database.db, slug))!.snapshot as Snapshot)).toBe(true);
+    return snapshot;
+  }
+
+  it('gets its charts drawn on the first read, stored with it, for readers arriving together and every later one', async () => {
+    const undrawn = await undraw();
+    const pages = await Promise.all(Array.from({ length: 3 }, () => supertest(t.app).get(`/api/published/${slug}`).expect(200)));
+    for (const res of pages) {
+      const charts = publishedNotebookResponseSchema.parse(res.body).snapshot.cells.filter((c) => c.result?.type === 'chart');
+      expect(charts.length).toBeGreaterThan(0);
+      for (const c of charts) expect((c.result as { svg?: string }).svg).toMatch(/^<svg[^>]* class="marks"/);
+    }
+    // Stored: a fresh process (a new cache) reads the drawings from the database.
+    const stored = (await findPublicationBySlug(t.database.db, slug))!.snapshot as Snapshot;
+    expect(missesDrawings(stored)).toBe(false);
+    // Only the drawings were added: everything else is the snapshot as published.
+    const withoutSvg = structuredClone(stored);
+    for (const c of withoutSvg.cells) if (c.result?.type === 'chart') delete c.result.svg;
+    expect(withoutSvg).toEqual(undrawn);
+    expect(parsePage((await new PublishedPageCache().read(t.database.db, slug)).body).snapshot).toEqual(stored);
+  });
+
+  it('gets them for the server-rendered page too', async () => {
+    await undraw();
+    const source = (await readPublishedForPage(t.database.db, slug))!;
+    expect(missesDrawings(source.page.snapshot)).toBe(false);
+  });
+
+  it('is answered without them when drawing takes too long, and has them on a later read', async () => {
+    await undraw();
+    const row = (await findPublicationBySlug(t.database.db, slug))!;
+    expect(missesDrawings(await withDrawings(t.database.db, row, 0))).toBe(true);
+    // The drawing went on: a reader a moment later waits for it and gets it.
+    expect(missesDrawings(await withDrawings(t.database.db, row))).toBe(false);
+    expect(missesDrawings((await findPublicationBySlug(t.database.db, slug))!.snapshot as Snapshot)).toBe(false);
+  });
+
+  it('never overwrites a publication republished or unpublished meanwhile', async () => {
+    const row = (await findPublicationBySlug(t.database.db, slug))!;
+    const earlier = new Date(row.publishedAt.getTime() - 60_000);
+    expect(await replacePublicationSnapshot(t.database.db, row.notebookId, earlier, { cells: [] })).toBe(false);
+    expect((await findPublicationBySlug(t.database.db, slug))!.snapshot).toEqual(row.snapshot);
   });
 });
 

@@ -1,4 +1,4 @@
-import { desc, eq } from 'drizzle-orm';
+import { and, desc, eq } from 'drizzle-orm';
 import type { Db } from '../client.js';
 import { notebook, publication, user } from '../schema.js';
 
@@ -72,6 +72,19 @@ export async function upsertPublication(
       target: publication.notebookId,
       set: { revision: input.revision, snapshot: input.snapshot, allowDownloads: input.allowDownloads, publishedBy: input.publishedBy, publishedAt: new Date() },
     });
+}
+
+/**
+ * Replaces the snapshot of one publication, identified by its publishing time as well as its
+ * notebook: answers false (and changes nothing) when it was republished or unpublished since.
+ */
+export async function replacePublicationSnapshot(db: Db, notebookId: string, publishedAt: Date, snapshot: unknown): Promise<boolean> {
+  const rows = await db
+    .update(publication)
+    .set({ snapshot })
+    .where(and(eq(publication.notebookId, notebookId), eq(publication.publishedAt, publishedAt)))
+    .returning({ slug: publication.slug });
+  return rows.length > 0;
 }
 
 /** Unpublishes a notebook; answers the slug it had, or null when it was not published. */
