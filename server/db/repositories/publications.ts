@@ -1,4 +1,4 @@
-import { and, desc, eq } from 'drizzle-orm';
+import { and, desc, eq, sql } from 'drizzle-orm';
 import type { Db } from '../client.js';
 import { notebook, publication, user } from '../schema.js';
 
@@ -82,7 +82,8 @@ export async function replacePublicationSnapshot(db: Db, notebookId: string, pub
   const rows = await db
     .update(publication)
     .set({ snapshot })
-    .where(and(eq(publication.notebookId, notebookId), eq(publication.publishedAt, publishedAt)))
+    // The database keeps microseconds, a Date milliseconds: a row written by SQL's now() must still match.
+    .where(and(eq(publication.notebookId, notebookId), sql`date_trunc('milliseconds', ${publication.publishedAt}) = ${publishedAt.toISOString()}::timestamptz`))
     .returning({ slug: publication.slug });
   return rows.length > 0;
 }
