@@ -12,7 +12,6 @@ import { hashRecording, hashText } from './hash.js';
  */
 export function cellKeys(graph: NotebookGraph, document: NotebookDocument, inputs: Record<string, Recording>): Map<string, string> {
   const params = new Map(document.parameters.map((p) => [p.name, p.value]));
-  const recordingKeys = new Map<Recording, string>();
   const keys = new Map<string, string>();
   for (const id of graph.order) {
     const g = graph.cells[id]!;
@@ -20,10 +19,8 @@ export function cellKeys(graph: NotebookGraph, document: NotebookDocument, input
     let recordingKey: string | null = null;
     if (cell.kind === 'import') {
       const r = inputs[cell.config.slot];
-      if (r !== undefined) {
-        if (!recordingKeys.has(r)) recordingKeys.set(r, hashRecording(r));
-        recordingKey = recordingKeys.get(r)!;
-      }
+      // hashRecording keeps each recording's key, so a recording read by several cells is hashed once.
+      if (r !== undefined) recordingKey = hashRecording(r);
     }
     keys.set(
       id,

@@ -12,6 +12,13 @@ function fakeEngine() {
 }
 
 describe('useNotebookRun', () => {
+  /** A runner over a fake engine, for a notebook of the given title. */
+  function startRunner(title: string) {
+    useNotebookStore().document = emptyNotebook(title);
+    const { run, engine } = fakeEngine();
+    return { run, runner: scope.run(() => useNotebookRun(engine))! };
+  }
+
   let scope = effectScope();
   beforeEach(() => {
     scope = effectScope();
@@ -24,10 +31,7 @@ describe('useNotebookRun', () => {
   });
 
   it('sends a run asked for with no pause (the run key) in the same task, before any timer', async () => {
-    const store = useNotebookStore();
-    store.document = emptyNotebook('Now');
-    const { run, engine } = fakeEngine();
-    const runner = scope.run(() => useNotebookRun(engine))!;
+    const { run, runner } = startRunner('Now');
     runner.requestRun(0);
     expect(run).not.toHaveBeenCalled();
     await Promise.resolve();
@@ -35,10 +39,7 @@ describe('useNotebookRun', () => {
   });
 
   it('waits for the pause after an edit, and one run follows a burst of edits', async () => {
-    const store = useNotebookStore();
-    store.document = emptyNotebook('Typing');
-    const { run, engine } = fakeEngine();
-    const runner = scope.run(() => useNotebookRun(engine))!;
+    const { run, runner } = startRunner('Typing');
     runner.requestRun();
     await vi.advanceTimersByTimeAsync(200);
     runner.requestRun();
@@ -49,10 +50,7 @@ describe('useNotebookRun', () => {
   });
 
   it('a run key press cancels the pending pause instead of running twice', async () => {
-    const store = useNotebookStore();
-    store.document = emptyNotebook('Both');
-    const { run, engine } = fakeEngine();
-    const runner = scope.run(() => useNotebookRun(engine))!;
+    const { run, runner } = startRunner('Both');
     runner.requestRun();
     runner.requestRun(0);
     await runner.whenIdle();
