@@ -1,12 +1,45 @@
 /// <reference types="vitest/config" />
 import { fileURLToPath, URL } from 'node:url';
 import vue from '@vitejs/plugin-vue';
-import { defineConfig } from 'vite';
+import { defineConfig, type Plugin } from 'vite';
 
 const apiPort = Number(process.env.PORT ?? 3000);
 
+/**
+ * Links the style sheets of the chunks published.html's entry loads by a dynamic import
+ * (and of what those import statically) into published.html itself, as Vite does for the
+ * entry's own: the server writes them into the page, so its server-drawn markup is styled
+ * from the first paint rather than once the view's code arrives.
+ */
+function readerStylesInPage(): Plugin {
+  return {
+    name: 'cogbook:reader-styles-in-page',
+    apply: 'build',
+    transformIndexHtml: {
+      order: 'post',
+      handler(html, { filename, bundle, chunk }) {
+        if (!filename.endsWith('published.html') || !bundle || !chunk) return html;
+        const sheets = new Set<string>();
+        const seen = new Set<string>();
+        const visit = (file: string) => {
+          const found = bundle[file];
+          if (seen.has(file) || found?.type !== 'chunk') return;
+          seen.add(file);
+          for (const css of found.viteMetadata?.importedCss ?? []) sheets.add(css);
+          for (const imported of found.imports) visit(imported);
+        };
+        for (const loaded of chunk.dynamicImports) visit(loaded);
+        const tags = [...sheets]
+          .filter((css) => !html.includes(`/${css}"`))
+          .map((css) => ({ tag: 'link', attrs: { rel: 'stylesheet', crossorigin: true, href: `/${css}` }, injectTo: 'head' as const }));
+        return { html, tags };
+      },
+    },
+  };
+}
+
 export default defineConfig({
-  plugins: [vue()],
+  plugins: [vue(), readerStylesInPage()],
   resolve: {
     alias: { '@': fileURLToPath(new URL('./src', import.meta.url)) },
   },

@@ -1,3 +1,4 @@
+import { createHash } from 'node:crypto';
 import { readFileSync, statSync } from 'node:fs';
 import { join } from 'node:path';
 import { pathToFileURL } from 'node:url';
@@ -8,6 +9,7 @@ import type { Db } from '../db/client.js';
 import { findPublicationBySlug, findPublicationOfNotebook, type PublicationRecord } from '../db/repositories/publications.js';
 import { findUploadBySha } from '../db/repositories/uploads.js';
 import { withDrawings } from '../services/published-drawings.js';
+import { bodyFor, type PublishedPage } from '../services/published-pages.js';
 import { revisionDocument } from '../services/snapshot.js';
 
 /** The server's render of the published page (src/published-ssr.ts, built into dist/ssr). */
@@ -53,13 +55,13 @@ export function publishedPageRoutes(clientDir: string, options: PublishedPageOpt
   const template = watchedFile(join(clientDir, 'published.html'), (text) => inlineStyles(text, clientDir));
   const ssrFile = join(options.ssrDir ?? join(clientDir, '..', 'ssr'), 'published-ssr.js');
   // A new build brings a new render and forgets the pages the old one made.
-  const kept = new Map<string, { notebookId: string; stamp: string; html: string; title: string }>();
+  const kept = new Map<string, KeptRender>();
   const renderer = watchedFile(ssrFile, (_text, mtimeMs) => {
     kept.clear();
     return import(`${pathToFileURL(ssrFile).href}?v=${mtimeMs}`) as Promise<PublishedRenderer>;
   });
 
-  async function article(slug: string): Promise<{ html: string; title: string } | undefined> {
+  async function article(slug: string): Promise<KeptRender | undefined> {
     const render = renderer();
     if (!render) return undefined;
     const known = kept.get(slug);
@@ -78,44 +80,71 @@ export function publishedPageRoutes(clientDir: string, options: PublishedPageOpt
     } catch {
       return undefined; // a render that fails leaves the page to its script
     }
-    const entry = { notebookId: found.notebookId, stamp: found.stamp, html, title: found.page.title };
+    const entry: KeptRender = { notebookId: found.notebookId, stamp: found.stamp, html, title: found.page.title };
     kept.set(slug, entry);
     while (kept.size > KEPT_PAGES) kept.delete(kept.keys().next().value!);
     return entry;
   }
 
   router.get(['/p/:slug', '/published/:slug'], async (req, res, next) => {
-    let html = template();
+    const html = template();
     if (html === undefined) return next();
-    const parsed = publicationSlugParamsSchema.safeParse(req.params);
-    if (parsed.success) {
-      const slug = parsed.data.slug;
-      // The same request the page's script makes (fetch: CORS mode, same-origin credentials), so the browser hands it the preloaded answer.
-      // First thing in the head after the title, so it starts before the scripts and styles.
-      html = html.replace('</title>', `</title>\n    <link rel="preload" href="/api/published/${encodeURIComponent(slug)}" as="fetch" crossorigin="anonymous">`);
-      const rendered = await article(slug);
-      if (rendered) {
-        html = html
-          .replace(/<title>[^<]*<\/title>/, () => `<title>${escapeHtml(rendered.title)} · Cogbook</title>`)
-          .replace('<div id="app"></div>', () => `<div id="app" data-rendered="server">${rendered.html}</div>`);
-      }
-    }
     res.setHeader('Cache-Control', 'no-cache');
-    res.type('html').send(html);
+    const parsed = publicationSlugParamsSchema.safeParse(req.params);
+    if (!parsed.success) return res.type('html').send(html);
+    const slug = parsed.data.slug;
+    // The same request the page's script makes (fetch: CORS mode, same-origin credentials), so the browser hands it the preloaded answer.
+    // First thing in the head after the title, so it starts before the scripts and styles.
+    const withPreload = html.replace('</title>', `</title>\n    <link rel="preload" href="/api/published/${encodeURIComponent(slug)}" as="fetch" crossorigin="anonymous">`);
+    const rendered = await article(slug);
+    if (!rendered) return res.type('html').send(withPreload);
+    // The whole page is made, and compressed, once per render and build, not for every reader.
+    if (rendered.page?.template !== html) {
+      const body = withPreload
+        .replace(/<title>[^<]*<\/title>/, () => `<title>${escapeHtml(rendered.title)} · Cogbook</title>`)
+        .replace('<div id="app"></div>', () => `<div id="app" data-rendered="server">${rendered.html}</div>`);
+      rendered.page = { template: html, page: keptPage(body) };
+    }
+    const page = rendered.page.page;
+    res.setHeader('ETag', page.etag);
+    res.vary('Accept-Encoding');
+    if (req.fresh) return res.status(304).end();
+    const { body, encoding } = bodyFor(page, (coding) => req.acceptsEncodings(coding) === coding);
+    if (encoding) res.setHeader('Content-Encoding', encoding);
+    res.type('html').send(body);
   });
   return router;
+}
+
+/** A publication's server render, and the page last made from it. */
+interface KeptRender {
+  notebookId: string;
+  stamp: string;
+  html: string;
+  title: string;
+  /** The whole page built on `html` with the reader page's build `template`, with its compressed copies. */
+  page?: { template: string; page: PublishedPage };
+}
+
+/** A page ready to send as it is, with a weak entity tag of its text. */
+function keptPage(html: string): PublishedPage {
+  const body = Buffer.from(html);
+  return { body, etag: `W/"${createHash('sha256').update(body).digest('base64url').slice(0, 27)}"`, encoded: {}, compressing: new Set() };
 }
 
 /**
  * The page's own style sheets written into it (the policy allows inline styles), so the
  * browser can paint the finding as soon as it has the HTML, without a round trip per sheet.
- * A sheet that cannot be read stays a link.
+ * Each keeps its link, disabled: a disabled style sheet is neither fetched nor applied (HTML
+ * standard, "link type stylesheet"), and the script loader that the page's view comes with
+ * (Vite's) loads a sheet the view needs only when no link to it is in the page, so the view
+ * does not wait for sheets the page already has. A sheet that cannot be read stays a link.
  */
 function inlineStyles(html: string, clientDir: string): string {
   return html.replace(/<link rel="stylesheet"(?: crossorigin)? href="\/assets\/([\w.-]+\.css)">/g, (link, file: string) => {
     try {
       const css = readFileSync(join(clientDir, 'assets', file), 'utf8');
-      return css.includes('</') ? link : `<style>${css}</style>`;
+      return css.includes('</') ? link : `<style>${css}</style><link rel="stylesheet" href="/assets/${file}" disabled>`;
     } catch {
       return link;
     }

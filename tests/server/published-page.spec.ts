@@ -18,13 +18,13 @@ let editor: Agent;
 let notebookId: string;
 
 /** One GET on a listening copy of the app, with the response bytes exactly as sent (no client-side decoding). */
-async function raw(app: Express, path: string, acceptEncoding: string): Promise<{ status: number; headers: IncomingHttpHeaders; body: Buffer }> {
+async function raw(app: Express, path: string, acceptEncoding: string, headers: Record<string, string> = {}): Promise<{ status: number; headers: IncomingHttpHeaders; body: Buffer }> {
   const server = app.listen(0, '127.0.0.1');
   await new Promise((r) => server.once('listening', r));
   try {
     const { port } = server.address() as AddressInfo;
     return await new Promise((resolve, reject) => {
-      get({ host: '127.0.0.1', port, path, headers: { 'accept-encoding': acceptEncoding } }, (res) => {
+      get({ host: '127.0.0.1', port, path, headers: { 'accept-encoding': acceptEncoding, ...headers } }, (res) => {
         const chunks: Buffer[] = [];
         res.on('data', (c: Buffer) => chunks.push(c));
         res.on('end', () => resolve({ status: res.statusCode ?? 0, headers: res.headers, body: Buffer.concat(chunks) }));
@@ -34,6 +34,15 @@ async function raw(app: Express, path: string, acceptEncoding: string): Promise<
   } finally {
     server.close();
   }
+}
+
+/** A stand-in for dist/ssr/published-ssr.js (built by vite.ssr.config.ts; the browser suite uses the real one). */
+function writeStandInRender(root: string): void {
+  mkdirSync(join(root, 'dist', 'ssr'), { recursive: true });
+  writeFileSync(
+    join(root, 'dist', 'ssr', 'published-ssr.js'),
+    'export async function renderPublishedPage(slug, page) { return `<article data-slug="${slug}">${page.snapshot.cells.length} cells, ${page.snapshot.cells.filter((c) => c.result && c.result.svg).length} drawn</article>`; }',
+  );
 }
 
 beforeAll(async () => {
@@ -169,7 +178,9 @@ describe('the published page and compressed responses', () => {
       const { app } = t.appWith({ rootDir: root });
       const res = await supertest(app).get('/p/chainring-gain-3f9a').expect(200);
       expect(res.text).toContain('<style>.published{color:red}</style>');
-      expect(res.text).not.toContain('href="/assets/published-abc.css"');
+      // Its link stays as a disabled one (not fetched): the view's script loader then knows the sheet is in the page.
+      expect(res.text).toContain('<link rel="stylesheet" href="/assets/published-abc.css" disabled>');
+      expect(res.text).not.toContain('crossorigin href="/assets/published-abc.css"');
       // A sheet it cannot read stays a link.
       expect(res.text).toContain('<link rel="stylesheet" crossorigin href="/assets/missing-abc.css">');
     } finally {
@@ -179,12 +190,7 @@ describe('the published page and compressed responses', () => {
 
   it('renders the finding into the page with the server render build, and leaves it to the page otherwise', async () => {
     const pub = (await editor.post(`/api/notebooks/${notebookId}/publication`).send({}).expect(200)).body as { slug: string };
-    mkdirSync(join(root, 'dist', 'ssr'), { recursive: true });
-    // A stand-in for dist/ssr/published-ssr.js (built by vite.ssr.config.ts; the browser suite uses the real one).
-    writeFileSync(
-      join(root, 'dist', 'ssr', 'published-ssr.js'),
-      'export async function renderPublishedPage(slug, page) { return `<article data-slug="${slug}">${page.snapshot.cells.length} cells, ${page.snapshot.cells.filter((c) => c.result && c.result.svg).length} drawn</article>`; }',
-    );
+    writeStandInRender(root);
     try {
       const { app } = t.appWith({ rootDir: root });
       const res = await supertest(app).get(`/p/${pub.slug}`).expect(200);
@@ -207,6 +213,43 @@ describe('the published page and compressed responses', () => {
       // A chart the server did not draw (published before charts were drawn) is drawn on this first read, so the page still comes rendered.
       await t.database.db.execute(sql`update publication set snapshot = jsonb_set(snapshot, '{cells,4,result}', (snapshot #> '{cells,4,result}') - 'svg'), published_at = now()`);
       expect((await supertest(app).get(`/p/${again.slug}`).expect(200)).text).toContain(`<div id="app" data-rendered="server"><article data-slug="${again.slug}">5 cells, 1 drawn</article></div>`);
+    } finally {
+      rmSync(join(root, 'dist', 'ssr'), { recursive: true, force: true });
+    }
+  });
+
+  it('makes a rendered page once and keeps it compressed, with an entity tag for readers who come back', async () => {
+    const pub = (await editor.post(`/api/notebooks/${notebookId}/publication`).send({}).expect(200)).body as { slug: string };
+    writeStandInRender(root);
+    try {
+      const { app } = t.appWith({ rootDir: root });
+      const path = `/p/${pub.slug}`;
+      const first = await raw(app, path, 'br');
+      expect(first.status).toBe(200);
+      const text = first.headers['content-encoding'] === 'br' ? brotliDecompressSync(first.body).toString() : first.body.toString();
+      expect(text).toContain(`<div id="app" data-rendered="server"><article data-slug="${pub.slug}">`);
+      expect(first.headers['etag']).toMatch(/^W\/"[\w-]{27}"$/);
+      expect(first.headers['vary']).toMatch(/accept-encoding/i);
+      // The compressed copy is made once, in the background: a later reader gets that copy, the same page.
+      let kept = first;
+      for (let i = 0; i < 100 && kept.headers['content-encoding'] !== 'br'; i++) {
+        await new Promise((r) => setTimeout(r, 20));
+        kept = await raw(app, path, 'br');
+      }
+      expect(kept.headers['content-encoding']).toBe('br');
+      expect(brotliDecompressSync(kept.body).toString()).toBe(text);
+      expect(kept.headers['etag']).toBe(first.headers['etag']);
+      const gz = await raw(app, path, 'identity');
+      expect(gz.headers['content-encoding']).toBeUndefined();
+      expect(gz.body.toString()).toBe(text);
+      // A reader who has the page is told it is unchanged.
+      expect((await raw(app, path, 'br', { 'if-none-match': first.headers['etag']! })).status).toBe(304);
+      // Renamed: a new page, with a new tag, for everyone.
+      await t.database.db.execute(sql`update notebook set title = ${'Renamed finding'} where id = ${notebookId}`);
+      const renamed = await raw(app, path, 'identity', { 'if-none-match': first.headers['etag']! });
+      expect(renamed.status).toBe(200);
+      expect(renamed.body.toString()).toContain('<title>Renamed finding · Cogbook</title>');
+      expect(renamed.headers['etag']).not.toBe(first.headers['etag']);
     } finally {
       rmSync(join(root, 'dist', 'ssr'), { recursive: true, force: true });
     }
