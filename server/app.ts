@@ -17,7 +17,7 @@ import { healthRoutes } from './routes/health.js';
 import { invitationRoutes } from './routes/invitations.js';
 import { notebookRoutes } from './routes/notebooks.js';
 import { outboxRoutes } from './routes/outbox.js';
-import { currentPublication, publishedPageRoutes, readPublishedForPage, type PublishedPageOptions } from './routes/publications-page.js';
+import { currentPublication, publishedPageRoutes, readPublishedForPage, type PublishedPages } from './routes/publications-page.js';
 import { publicationRoutes } from './routes/publications.js';
 import { runRoutes } from './routes/runs.js';
 import { sampleRoutes } from './routes/samples.js';
@@ -79,7 +79,11 @@ export function createApp(deps: AppDeps): AppHandle {
   app.use('/api/samples', sampleRoutes());
   const signedIn = requireSession(auth);
   // Working together: these routers check the session per route, as some of their routes are public.
-  app.use('/api', exportRoutes(ctx), runRoutes(ctx), shareRoutes(ctx), publicationRoutes(ctx));
+  const db = deps.database.db;
+  const clientDir = join(deps.config.rootDir, 'dist', 'client');
+  const readerPages = publishedPageRoutes(clientDir, { read: (slug) => readPublishedForPage(db, slug), current: (notebookId) => currentPublication(db, notebookId) });
+  // A page just published is rendered right away, so its first reader does not wait for that.
+  app.use('/api', exportRoutes(ctx), runRoutes(ctx), shareRoutes(ctx), publicationRoutes(ctx, { onPublished: (slug) => void readerPages.prepare(slug) }));
   app.use('/api', invitationRoutes(ctx));
   app.use('/api/workspaces', signedIn, workspaceRoutes(ctx));
   app.use('/api/notebooks', signedIn, notebookRoutes(ctx));
@@ -87,8 +91,7 @@ export function createApp(deps: AppDeps): AppHandle {
   app.use('/api/outbox', signedIn, outboxRoutes(ctx));
   app.use('/api', notFoundHandler);
 
-  const db = deps.database.db;
-  mountClient(app, deps.config.rootDir, { read: (slug) => readPublishedForPage(db, slug), current: (notebookId) => currentPublication(db, notebookId) });
+  mountClient(app, clientDir, readerPages);
   app.use(errorHandler(deps.logger, deps.config.uploadLimitMb));
   return { app, auth };
 }
@@ -123,8 +126,7 @@ function mountAuth(app: Express, ctx: AppContext): void {
 }
 
 /** The built SPA: hashed assets, then index.html for any other GET. */
-function mountClient(app: Express, rootDir: string, published: PublishedPageOptions): void {
-  const clientDir = join(rootDir, 'dist', 'client');
+function mountClient(app: Express, clientDir: string, readerPages: PublishedPages): void {
   app.use(
     '/assets',
     express.static(join(clientDir, 'assets'), {
@@ -138,7 +140,7 @@ function mountClient(app: Express, rootDir: string, published: PublishedPageOpti
   );
   app.use('/assets', notFoundHandler);
   app.use(express.static(clientDir, { index: false }));
-  app.use(publishedPageRoutes(clientDir, published));
+  app.use(readerPages.router);
   app.get('/{*splat}', (_req, res, next) => {
     const index = join(clientDir, 'index.html');
     if (!existsSync(index)) return next();

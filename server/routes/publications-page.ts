@@ -50,7 +50,7 @@ const KEPT_PAGES = 16;
  * The page's style sheets are written into it (see inlineStyles). Without a built published.html
  * the app's own page serves these addresses (its router has the same route).
  */
-export function publishedPageRoutes(clientDir: string, options: PublishedPageOptions): Router {
+export function publishedPageRoutes(clientDir: string, options: PublishedPageOptions): PublishedPages {
   const router = Router();
   const template = watchedFile(join(clientDir, 'published.html'), (text) => inlineStyles(text, clientDir));
   const ssrFile = join(options.ssrDir ?? join(clientDir, '..', 'ssr'), 'published-ssr.js');
@@ -60,8 +60,20 @@ export function publishedPageRoutes(clientDir: string, options: PublishedPageOpt
     kept.clear();
     return import(`${pathToFileURL(ssrFile).href}?v=${mtimeMs}`) as Promise<PublishedRenderer>;
   });
+  // Renders under way, by slug: readers arriving meanwhile wait for the same one.
+  const rendering = new Map<string, Promise<KeptRender | undefined>>();
 
-  async function article(slug: string): Promise<KeptRender | undefined> {
+  function article(slug: string): Promise<KeptRender | undefined> {
+    const running = rendering.get(slug);
+    if (running) return running;
+    const started = renderArticle(slug).finally(() => {
+      if (rendering.get(slug) === started) rendering.delete(slug);
+    });
+    rendering.set(slug, started);
+    return started;
+  }
+
+  async function renderArticle(slug: string): Promise<KeptRender | undefined> {
     const render = renderer();
     if (!render) return undefined;
     const known = kept.get(slug);
@@ -86,26 +98,27 @@ export function publishedPageRoutes(clientDir: string, options: PublishedPageOpt
     return entry;
   }
 
+  /** The page at `slug` with its server render, made (and compressed) once per render and build; undefined without a render. */
+  async function renderedPage(slug: string, html: string): Promise<PublishedPage | undefined> {
+    const rendered = await article(slug);
+    if (!rendered) return undefined;
+    if (rendered.page?.template !== html) {
+      const body = withPreload(html, slug)
+        .replace(/<title>[^<]*<\/title>/, () => `<title>${escapeHtml(rendered.title)} · Cogbook</title>`)
+        .replace('<div id="app"></div>', () => `<div id="app" data-rendered="server">${rendered.html}</div>`);
+      rendered.page = { template: html, page: keptPage(body) };
+    }
+    return rendered.page.page;
+  }
+
   router.get(['/p/:slug', '/published/:slug'], async (req, res, next) => {
     const html = template();
     if (html === undefined) return next();
     res.setHeader('Cache-Control', 'no-cache');
     const parsed = publicationSlugParamsSchema.safeParse(req.params);
     if (!parsed.success) return res.type('html').send(html);
-    const slug = parsed.data.slug;
-    // The same request the page's script makes (fetch: CORS mode, same-origin credentials), so the browser hands it the preloaded answer.
-    // First thing in the head after the title, so it starts before the scripts and styles.
-    const withPreload = html.replace('</title>', `</title>\n    <link rel="preload" href="/api/published/${encodeURIComponent(slug)}" as="fetch" crossorigin="anonymous">`);
-    const rendered = await article(slug);
-    if (!rendered) return res.type('html').send(withPreload);
-    // The whole page is made, and compressed, once per render and build, not for every reader.
-    if (rendered.page?.template !== html) {
-      const body = withPreload
-        .replace(/<title>[^<]*<\/title>/, () => `<title>${escapeHtml(rendered.title)} · Cogbook</title>`)
-        .replace('<div id="app"></div>', () => `<div id="app" data-rendered="server">${rendered.html}</div>`);
-      rendered.page = { template: html, page: keptPage(body) };
-    }
-    const page = rendered.page.page;
+    const page = await renderedPage(parsed.data.slug, html);
+    if (!page) return res.type('html').send(withPreload(html, parsed.data.slug));
     res.setHeader('ETag', page.etag);
     res.vary('Accept-Encoding');
     if (req.fresh) return res.status(304).end();
@@ -113,7 +126,33 @@ export function publishedPageRoutes(clientDir: string, options: PublishedPageOpt
     if (encoding) res.setHeader('Content-Encoding', encoding);
     res.type('html').send(body);
   });
-  return router;
+
+  return {
+    router,
+    async prepare(slug) {
+      const html = template();
+      const page = html === undefined ? undefined : await renderedPage(slug, html).catch(() => undefined);
+      // Its compressed copies too (brotli for browsers, gzip for the rest), made in the background as for a reader.
+      if (page) for (const coding of ['br', 'gzip'] as const) bodyFor(page, (c) => c === coding);
+    },
+  };
+}
+
+/** The reader page's routes, and a way to have a page ready before its first reader asks. */
+export interface PublishedPages {
+  router: Router;
+  /** Renders and compresses the page at `slug` now (after publishing), so its first reader need not wait for that. Never throws. */
+  prepare(slug: string): Promise<void>;
+}
+
+/**
+ * The page with a preload link that starts the page's one API request while the browser is
+ * still reading the HTML: the same request the page's script makes (fetch: CORS mode,
+ * same-origin credentials), so the browser hands it the preloaded answer. First thing in the
+ * head after the title, so it starts before the scripts and styles.
+ */
+function withPreload(html: string, slug: string): string {
+  return html.replace('</title>', `</title>\n    <link rel="preload" href="/api/published/${encodeURIComponent(slug)}" as="fetch" crossorigin="anonymous">`);
 }
 
 /** A publication's server render, and the page last made from it. */

@@ -6,8 +6,13 @@ import { requireSession, userIdOf } from '../middleware/session.js';
 import { bodyFor, publishedPagesOf } from '../services/published-pages.js';
 import * as publications from '../services/publications.js';
 
+export interface PublicationRouteOptions {
+  /** Told each slug just published (or republished), after the answer has gone out. */
+  onPublished?: (slug: string) => void;
+}
+
 /** Publishing (editors) and the public reader's routes under /api/published. */
-export function publicationRoutes(ctx: AppContext): Router {
+export function publicationRoutes(ctx: AppContext, options: PublicationRouteOptions = {}): Router {
   const router = Router();
   const db = ctx.database.db;
   const signedIn = requireSession(ctx.auth);
@@ -15,7 +20,9 @@ export function publicationRoutes(ctx: AppContext): Router {
   const pages = publishedPagesOf(ctx.database);
   router.post('/notebooks/:id/publication', signedIn, async (req, res) => {
     const { id } = idParamsSchema.parse(req.params);
-    res.json(await publications.publish(db, userIdOf(res), id, publishBodySchema.parse(req.body ?? {}), baseUrl));
+    const published = await publications.publish(db, userIdOf(res), id, publishBodySchema.parse(req.body ?? {}), baseUrl);
+    res.json(published);
+    options.onPublished?.(published.slug);
   });
   router.get('/notebooks/:id/publication', signedIn, async (req, res) => {
     const { id } = idParamsSchema.parse(req.params);

@@ -11,7 +11,7 @@ import { publishedNotebookResponseSchema } from '../../shared/api/publications.j
 import { chartSvg, isPlainSvg } from '../../server/engine/chart-svg.js';
 import { fitBytes } from './helpers/fixtures.js';
 import { recipeDoc } from './helpers/recipe-notebook.js';
-import { createTestApp, personalWorkspaceOf, signUp, type Agent, type TestApp } from './helpers/test-app.js';
+import { createTestApp, personalWorkspaceOf, signUp, TEST_PASSWORD, type Agent, type TestApp } from './helpers/test-app.js';
 
 let t: TestApp;
 let editor: Agent;
@@ -36,12 +36,12 @@ async function raw(app: Express, path: string, acceptEncoding: string, headers: 
   }
 }
 
-/** A stand-in for dist/ssr/published-ssr.js (built by vite.ssr.config.ts; the browser suite uses the real one). */
+/** A stand-in for dist/ssr/published-ssr.js (built by vite.ssr.config.ts; the browser suite uses the real one); it counts its renders in `globalThis.standInRenders`. */
 function writeStandInRender(root: string): void {
   mkdirSync(join(root, 'dist', 'ssr'), { recursive: true });
   writeFileSync(
     join(root, 'dist', 'ssr', 'published-ssr.js'),
-    'export async function renderPublishedPage(slug, page) { return `<article data-slug="${slug}">${page.snapshot.cells.length} cells, ${page.snapshot.cells.filter((c) => c.result && c.result.svg).length} drawn</article>`; }',
+    'export async function renderPublishedPage(slug, page) { globalThis.standInRenders = (globalThis.standInRenders ?? 0) + 1; return `<article data-slug="${slug}">${page.snapshot.cells.length} cells, ${page.snapshot.cells.filter((c) => c.result && c.result.svg).length} drawn</article>`; }',
   );
 }
 
@@ -250,6 +250,28 @@ describe('the published page and compressed responses', () => {
       expect(renamed.status).toBe(200);
       expect(renamed.body.toString()).toContain('<title>Renamed finding · Cogbook</title>');
       expect(renamed.headers['etag']).not.toBe(first.headers['etag']);
+    } finally {
+      rmSync(join(root, 'dist', 'ssr'), { recursive: true, force: true });
+    }
+  });
+
+  it('renders and compresses a page as it is published, so its first reader gets it ready', async () => {
+    writeStandInRender(root);
+    const renders = () => (globalThis as { standInRenders?: number }).standInRenders ?? 0;
+    try {
+      const { app } = t.appWith({ rootDir: root });
+      const publisher = supertest.agent(app);
+      await publisher.post('/api/auth/sign-in/email').send({ email: 'editor@lab.test', password: TEST_PASSWORD }).expect(200);
+      const before = renders();
+      const pub = (await publisher.post(`/api/notebooks/${notebookId}/publication`).send({}).expect(200)).body as { slug: string };
+      // No reader has asked yet: the page is rendered, and its compressed copy made, in the background.
+      for (let i = 0; i < 200 && renders() === before; i++) await new Promise((r) => setTimeout(r, 20));
+      expect(renders()).toBe(before + 1);
+      await new Promise((r) => setTimeout(r, 200));
+      const first = await raw(app, `/p/${pub.slug}`, 'br');
+      expect(first.headers['content-encoding']).toBe('br');
+      expect(brotliDecompressSync(first.body).toString()).toContain(`<div id="app" data-rendered="server"><article data-slug="${pub.slug}">`);
+      expect(renders()).toBe(before + 1);
     } finally {
       rmSync(join(root, 'dist', 'ssr'), { recursive: true, force: true });
     }
