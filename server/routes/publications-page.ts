@@ -63,9 +63,14 @@ export function publishedPageRoutes(clientDir: string, options: PublishedPageOpt
   // Renders under way, by slug: readers arriving meanwhile wait for the same one.
   const rendering = new Map<string, Promise<KeptRender | undefined>>();
 
-  function article(slug: string): Promise<KeptRender | undefined> {
+  async function article(slug: string): Promise<KeptRender | undefined> {
     const running = rendering.get(slug);
-    if (running) return running;
+    if (running) {
+      // Begun before this reader came: still the publication now (not withdrawn or republished meanwhile)?
+      const joined = await running;
+      const now = joined && (await options.current(joined.notebookId).catch(() => undefined));
+      return now && now.slug === slug && now.stamp === joined.stamp ? joined : undefined;
+    }
     const started = renderArticle(slug).finally(() => {
       if (rendering.get(slug) === started) rendering.delete(slug);
     });

@@ -36,12 +36,12 @@ async function raw(app: Express, path: string, acceptEncoding: string, headers: 
   }
 }
 
-/** A stand-in for dist/ssr/published-ssr.js (built by vite.ssr.config.ts; the browser suite uses the real one); it counts its renders in `globalThis.standInRenders`. */
+/** A stand-in for dist/ssr/published-ssr.js (built by vite.ssr.config.ts; the browser suite uses the real one); it counts its renders in `globalThis.standInRenders` and waits for `globalThis.standInGate`, when set. */
 function writeStandInRender(root: string): void {
   mkdirSync(join(root, 'dist', 'ssr'), { recursive: true });
   writeFileSync(
     join(root, 'dist', 'ssr', 'published-ssr.js'),
-    'export async function renderPublishedPage(slug, page) { globalThis.standInRenders = (globalThis.standInRenders ?? 0) + 1; return `<article data-slug="${slug}">${page.snapshot.cells.length} cells, ${page.snapshot.cells.filter((c) => c.result && c.result.svg).length} drawn</article>`; }',
+    'export async function renderPublishedPage(slug, page) { globalThis.standInRenders = (globalThis.standInRenders ?? 0) + 1; await globalThis.standInGate; return `<article data-slug="${slug}">${page.snapshot.cells.length} cells, ${page.snapshot.cells.filter((c) => c.result && c.result.svg).length} drawn</article>`; }',
   );
 }
 
@@ -273,6 +273,35 @@ describe('the published page and compressed responses', () => {
       expect(brotliDecompressSync(first.body).toString()).toContain(`<div id="app" data-rendered="server"><article data-slug="${pub.slug}">`);
       expect(renders()).toBe(before + 1);
     } finally {
+      rmSync(join(root, 'dist', 'ssr'), { recursive: true, force: true });
+    }
+  });
+
+  it('does not hand a reader a render that began before the finding was withdrawn', async () => {
+    writeStandInRender(root);
+    const gate = globalThis as { standInGate?: Promise<void>; standInRenders?: number };
+    let open!: () => void;
+    gate.standInGate = new Promise((resolve) => (open = resolve));
+    try {
+      const { app } = t.appWith({ rootDir: root });
+      const publisher = supertest.agent(app);
+      await publisher.post('/api/auth/sign-in/email').send({ email: 'editor@lab.test', password: TEST_PASSWORD }).expect(200);
+      const before = gate.standInRenders ?? 0;
+      const pub = (await publisher.post(`/api/notebooks/${notebookId}/publication`).send({}).expect(200)).body as { slug: string };
+      // The render that publishing started is held at the gate; a reader arrives and waits for it.
+      for (let i = 0; i < 200 && (gate.standInRenders ?? 0) === before; i++) await new Promise((r) => setTimeout(r, 20));
+      const reading = raw(app, `/p/${pub.slug}`, 'identity');
+      await new Promise((r) => setTimeout(r, 200));
+      await publisher.delete(`/api/notebooks/${notebookId}/publication`).expect(204);
+      open();
+      const page = await reading;
+      expect(page.status).toBe(200);
+      expect(page.body.toString()).toContain('<div id="app"></div>');
+      expect(page.body.toString()).not.toContain('data-rendered');
+      expect(gate.standInRenders).toBe(before + 1);
+    } finally {
+      open();
+      delete gate.standInGate;
       rmSync(join(root, 'dist', 'ssr'), { recursive: true, force: true });
     }
   });
