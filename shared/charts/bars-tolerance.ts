@@ -1,4 +1,4 @@
-import { VEGA_LITE_SCHEMA, TOLERANCE_BAND_COLOUR, deviceScale, finiteOrNull, type ChartDevice } from './chart-common.js';
+import { deviceScale, finiteOrNull, drawnOnce, TOLERANCE_BAND_COLOUR, type ChartDevice, VEGA_LITE_SCHEMA } from './chart-common.js';
 import type { ChartRow, TopLevelSpec } from './spec.js';
 
 /** One bar: a percent difference for a block, leg or chainring. */
@@ -41,8 +41,8 @@ export function barsToleranceSpec(input: BarsToleranceInput): TopLevelSpec {
     data: { values: rows },
     usermeta: { tolerancePct: tol },
     layer: [
-      { mark: { type: 'rect', color: TOLERANCE_BAND_COLOUR, opacity: 0.35 }, encoding: { y: { datum: -tol }, y2: { datum: tol } } },
-      { mark: { type: 'rule', color: '#666666' }, encoding: { y: { datum: 0 } } },
+      { data: drawnOnce(), mark: { type: 'rect', color: TOLERANCE_BAND_COLOUR, opacity: 0.35 }, encoding: { y: { datum: -tol }, y2: { datum: tol } } },
+      { data: drawnOnce(), mark: { type: 'rule', color: '#666666' }, encoding: { y: { datum: 0 } } },
       {
         mark: { type: 'bar' },
         encoding: {

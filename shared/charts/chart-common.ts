@@ -28,3 +28,12 @@ export const LEG_COLOURS = { left: deviceColour(2), right: deviceColour(3) } as 
 
 /** Colour of the tolerance band: a light grey that reads on white and under bars. */
 export const TOLERANCE_BAND_COLOUR = '#BBBBBB';
+
+/**
+ * Data of one empty row, for a layer drawn once whatever the chart's rows (a rule at zero, a
+ * tolerance band): a layer without data of its own takes the chart's and draws one mark per row.
+ * A new object each time: the chart library tags the rows it is given.
+ */
+export function drawnOnce(): { values: Record<string, never>[] } {
+  return { values: [{}] };
+}

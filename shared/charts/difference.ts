@@ -1,6 +1,6 @@
 import { fullSeriesIfReduced } from './reduce-range.js';
 import { reduceForDisplay } from './reduce-series.js';
-import { DEFAULT_MAX_POINTS, VEGA_LITE_SCHEMA, finiteOrNull, type ChartDevice } from './chart-common.js';
+import { DEFAULT_MAX_POINTS, finiteOrNull, drawnOnce, type ChartDevice, VEGA_LITE_SCHEMA } from './chart-common.js';
 import { deviceColour } from './palette.js';
 import type { ChartRow, TopLevelSpec } from './spec.js';
 
@@ -40,7 +40,7 @@ export function differenceSpec(input: DifferenceInput): TopLevelSpec {
     // The full difference, so a zoomed view is drawn from the original samples (see ChartView).
     ...fullSeriesIfReduced({ xField: 't', x: Array.from(input.timeS).slice(0, n), series: [{ yField: 'diff', values: Array.from(diff, finiteOrNull) }], maxPoints }),
     layer: [
-      { mark: { type: 'rule', color: '#666666' }, encoding: { y: { datum: 0 } } },
+      { data: drawnOnce(), mark: { type: 'rule', color: '#666666' }, encoding: { y: { datum: 0 } } },
       {
         mark: { type: 'line', strokeWidth: 1, color: deviceColour(input.device.colourIndex) },
         encoding: {

@@ -1,4 +1,4 @@
-import { VEGA_LITE_SCHEMA, LEG_COLOURS, TOLERANCE_BAND_COLOUR, finiteOrNull } from './chart-common.js';
+import { finiteOrNull, LEG_COLOURS, drawnOnce, TOLERANCE_BAND_COLOUR, VEGA_LITE_SCHEMA } from './chart-common.js';
 import type { ChartRow, TopLevelSpec } from './spec.js';
 
 /** Input of {@link leftRightSpec}: per-leg percent differences for each label (block, chainring). */
@@ -28,8 +28,8 @@ export function leftRightSpec(input: LeftRightInput): TopLevelSpec {
     data: { values: rows },
     usermeta: { tolerancePct: tol },
     layer: [
-      { mark: { type: 'rect', color: TOLERANCE_BAND_COLOUR, opacity: 0.35 }, encoding: { y: { datum: -tol }, y2: { datum: tol } } },
-      { mark: { type: 'rule', color: '#666666' }, encoding: { y: { datum: 0 } } },
+      { data: drawnOnce(), mark: { type: 'rect', color: TOLERANCE_BAND_COLOUR, opacity: 0.35 }, encoding: { y: { datum: -tol }, y2: { datum: tol } } },
+      { data: drawnOnce(), mark: { type: 'rule', color: '#666666' }, encoding: { y: { datum: 0 } } },
       {
         mark: { type: 'bar' },
         encoding: {

@@ -1,4 +1,6 @@
 import * as ss from 'simple-statistics';
+import { parse as parseVega, View } from 'vega';
+import { compile } from 'vega-lite';
 import { describe, expect, it } from 'vitest';
 import {
   LEG_COLOURS,
@@ -113,6 +115,38 @@ describe('chart presets', () => {
     for (const s of specs) {
       expect(s.$schema).toMatch(/vega-lite\/v6/);
       expect(JSON.parse(JSON.stringify(s))).toEqual(s);
+    }
+  });
+
+  it('draws a rule at zero and a tolerance band once, however many rows the chart has', async () => {
+    const n = 500;
+    const t = Array.from({ length: n }, (_, i) => i);
+    const r = t.map((i) => 200 + (i % 40));
+    const d = r.map((v, i) => v + (i % 7) - 3);
+    const bars = Array.from({ length: 40 }, (_, i) => ({ label: `b${i}`, valuePct: (i % 9) - 4 }));
+    const legs = Array.from({ length: 40 }, (_, i) => `l${i}`);
+    // The mark types each preset draws once (the rest draw from the rows).
+    const cases: [TopLevelSpec, string[]][] = [
+      [differenceSpec({ timeS: t, test: d, reference: r, device: { label: 'C', colourIndex: 1 } }), ['rule']],
+      [barsToleranceSpec({ bars, tolerancePct: 2 }), ['rule', 'rect']],
+      [leftRightSpec({ labels: legs, leftPct: legs.map((_, i) => i % 3), rightPct: legs.map((_, i) => -(i % 3)), tolerancePct: 2 }), ['rule', 'rect']],
+    ];
+    for (const [spec, once] of cases) {
+      // Drawn by the chart library itself: the marks each layer puts on the page.
+      const view = new View(parseVega(compile(spec as never).spec), { renderer: 'none' });
+      await view.runAsync();
+      // Items per mark, by the name vega-lite gives each layer's marks.
+      const counts = new Map<string, number>();
+      const walk = (node: { items?: unknown[]; marktype?: string; role?: string; name?: string }): void => {
+        if (node.marktype && node.role === 'mark' && node.name) counts.set(node.name, (counts.get(node.name) ?? 0) + (node.items?.length ?? 0));
+        for (const child of node.items ?? []) walk(child as typeof node);
+      };
+      walk((view.scenegraph() as unknown as { root: Parameters<typeof walk>[0] }).root);
+      view.finalize();
+      const drawn = layers(spec).map((l, i) => [markType(l), counts.get(`layer_${i}_marks`)] as const);
+      for (const [type, items] of drawn) if (once.includes(type)) expect(items, `${type} marks`).toBe(1);
+      // The data layer still draws from every row.
+      expect(drawn.some(([type, items]) => !once.includes(type) && (items ?? 0) >= 1)).toBe(true);
     }
   });
 });
