@@ -7,9 +7,8 @@ import type { PublishedNotebookResponse } from '../../shared/api/publications.js
 import { publicationSlugParamsSchema } from '../../shared/api/publications.js';
 import type { Db } from '../db/client.js';
 import { findPublicationBySlug, findPublicationOfNotebook, type PublicationRecord } from '../db/repositories/publications.js';
-import { findUploadBySha } from '../db/repositories/uploads.js';
 import { withDrawings } from '../services/published-drawings.js';
-import { bodyFor, type PublishedPage } from '../services/published-pages.js';
+import { bodyFor, publishedFiles, type PublishedPage } from '../services/published-pages.js';
 import { revisionDocument } from '../services/snapshot.js';
 
 /** The server's render of the published page (src/published-ssr.ts, built into dist/ssr). */
@@ -225,14 +224,7 @@ export async function readPublishedForPage(db: Db, slug: string): Promise<Publis
   if (!found) return undefined;
   const snapshot = await withDrawings(db, found);
   const document = await revisionDocument(db, found.notebookId, found.revision);
-  let files: PublishedNotebookResponse['files'] = null;
-  if (found.allowDownloads) {
-    files = [];
-    for (const input of snapshot.inputs) {
-      const upload = await findUploadBySha(db, input.sha256);
-      if (upload) files.push({ uploadId: upload.id, slot: input.slot, fileName: input.fileName, format: input.format, size: input.size });
-    }
-  }
+  const files = found.allowDownloads ? await publishedFiles(db, snapshot) : null;
   const page: PublishedNotebookResponse = {
     slug: found.slug,
     title: found.title,
